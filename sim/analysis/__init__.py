@@ -1,0 +1,1 @@
+"""Post-processing: comparisons, range estimates, curves, plots, reports."""

@@ -1,0 +1,1 @@
+"""Coupling: ODE right-hand side, mission events and run loop."""

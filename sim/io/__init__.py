@@ -1,0 +1,1 @@
+"""Files in and out: unit-aware parsing, validation, HDF5 logs."""

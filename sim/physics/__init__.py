@@ -1,0 +1,1 @@
+"""Pure physics models (SI units inside, no I/O)."""
