@@ -1,0 +1,643 @@
+"""Fly a mission: legs, triggers, scheduled changes and stop conditions over one clock.
+
+The continuous dynamics are integrated by :func:`scipy.integrate.solve_ivp` between discrete
+events; state events (leg ends, triggers, stop conditions) are terminal events located by the
+integrator's root finder on its dense output. Discrete events that are known in advance (scheduled
+hotel-load changes) live on a :mod:`simpy` environment, whose clock is the run's clock: every
+integration segment ends no later than the environment's next scheduled event.
+
+Nothing here writes files or prints: observers receive samples, events and leg summaries
+(:class:`RunObserver`).
+"""
+
+from __future__ import annotations
+
+import math
+import time as _time
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+import simpy
+from scipy.integrate import solve_ivp
+
+from sim.engine.model import (
+    ACC_NAMES,
+    I_RC1,
+    I_RC2,
+    I_SOC,
+    I_TB,
+    I_V,
+    I_XG,
+    I_XW,
+    Control,
+    VesselModel,
+    initial_state,
+)
+from sim.engine.plant import Plant
+from sim.engine.steady import SteadyError, steady_at_speed
+from sim.io.schema import Conditions, LegSpec, ScenarioFile, TriggerSpec
+
+__all__ = ["EXIT_REASONS", "MissionRunner", "RunObserver", "RunResult", "SolverFailure"]
+
+EXIT_REASONS = {
+    "mission complete": 0,
+}
+
+
+class SolverFailure(RuntimeError):
+    """The integrator failed or the model had no solution; carries where it happened."""
+
+    def __init__(self, message: str, t: float, leg: str, state: dict) -> None:
+        self.t, self.leg, self.state = t, leg, state
+        super().__init__(f"{message} at t = {t:.3f} s in leg {leg!r}; state: "
+                         + ", ".join(f"{k} = {v:.6g}" for k, v in state.items()))
+
+
+# ------------------------------------------------------------------ outputs
+
+
+def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
+    """name -> (units, description, columns (None for 1-D), dtype) of every logged series."""
+    n = len(plant.thrusters)
+    f = "float64"
+    return {
+        "time_s": ("s", "mission time", None, f),
+        "leg_index": ("1", "index of the active leg (0-based)", None, "int32"),
+        "speed_through_water_m_s": ("m/s", "vessel speed relative to the water", None, f),
+        "speed_over_ground_m_s": ("m/s", "speed through water plus the along-track current",
+                                  None, f),
+        "distance_m": ("m", "distance over ground along the track", None, f),
+        "distance_through_water_m": ("m", "distance travelled relative to the water", None, f),
+        "thrust_n": ("N", "thrust of each thruster design (all its units)", n, f),
+        "thruster_current_a": ("A", "current of each thruster design (all its units)", n, f),
+        "thruster_voltage_v": ("V", "electrode voltage of each thruster design", n, f),
+        "field_t": ("T", "mean gap field of each thruster design", n, f),
+        "duct_temperature_rise_k": ("K", "outlet minus inlet water temperature, each design", n, f),
+        "magnet_temperature_c": ("degC", "lumped magnet temperature of each design", n, f),
+        "hull_resistance_n": ("N", "calm-water resistance incl. thruster housings", None, f),
+        "thruster_power_w": ("W", "electrical power into all thrusters (V·I)", None, f),
+        "pack_power_w": ("W", "power drawn from the battery pack terminals", None, f),
+        "pack_current_a": ("A", "battery pack current (discharge positive)", None, f),
+        "pack_voltage_v": ("V", "battery pack terminal voltage", None, f),
+        "cell_voltage_v": ("V", "terminal voltage per cell", None, f),
+        "state_of_charge": ("1", "battery state of charge", None, f),
+        "battery_temperature_c": ("degC", "lumped battery temperature", None, f),
+        "joule_loss_w": ("W", "ohmic heating of the water in the ducts (J²/σ)", None, f),
+        "electrode_loss_w": ("W", "electrode drop × current (decomposition, overpotential, "
+                             "galvanic offset)", None, f),
+        "friction_loss_w": ("W", "duct friction and inlet/nozzle losses", None, f),
+        "wake_loss_w": ("W", "kinetic energy left in the jet (momentum theory)", None, f),
+        "drive_loss_w": ("W", "power-electronics loss", None, f),
+        "hotel_power_w": ("W", "hotel and cryocooler loads", None, f),
+        "useful_power_w": ("W", "thrust × speed through water", None, f),
+        "efficiency_electrical": ("1", "flow work / thruster electrical power", None, f),
+        "efficiency_propulsive": ("1", "thrust power / flow work", None, f),
+        "efficiency_overall": ("1", "thrust power / thruster electrical power", None, f),
+        "h2_rate_mol_s": ("mol/s", "hydrogen evolved at the cathodes (Faraday)", None, f),
+        "cl2_rate_mol_s": ("mol/s", "chlorine evolved at the anodes (Faraday)", None, f),
+        "h2_total_mol": ("mol", "hydrogen evolved since the start", None, f),
+        "cl2_total_mol": ("mol", "chlorine evolved since the start", None, f),
+        "energy_out_j": ("J", "energy drawn from the pack terminals since the start", None, f),
+    }
+
+
+def _ratio(a: float, b: float) -> float:
+    return a / b if b > 1e-12 else 0.0
+
+
+def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> dict:
+    s = model.evaluate(t, y)
+    p, lay = model.plant, model.lay
+    useful = s.total_thrust_n * float(y[I_V])
+    return {
+        "time_s": t, "leg_index": leg_index,
+        "speed_through_water_m_s": float(y[I_V]),
+        "speed_over_ground_m_s": float(y[I_V]) + p.water_current_m_s,
+        "distance_m": float(y[I_XG]), "distance_through_water_m": float(y[I_XW]),
+        "thrust_n": list(s.thrust_n), "thruster_current_a": list(s.current_a),
+        "thruster_voltage_v": list(s.voltage_v), "field_t": list(s.field_t),
+        "duct_temperature_rise_k": list(s.duct_rise_k),
+        "magnet_temperature_c": [float(v) for v in y[lay.i_mag:lay.i_mag + lay.n_thr]],
+        "hull_resistance_n": s.resistance_n, "thruster_power_w": s.thr_power_w,
+        "pack_power_w": s.pack_power_w, "pack_current_a": s.pack_current_a,
+        "pack_voltage_v": s.pack_voltage_v, "cell_voltage_v": s.cell_voltage_v,
+        "state_of_charge": float(y[I_SOC]), "battery_temperature_c": float(y[I_TB]),
+        "joule_loss_w": s.joule_w, "electrode_loss_w": s.electrode_w,
+        "friction_loss_w": s.friction_w, "wake_loss_w": s.wake_w,
+        "drive_loss_w": s.drive_loss_w, "hotel_power_w": s.hotel_w, "useful_power_w": useful,
+        "efficiency_electrical": _ratio(s.flow_work_w, s.thr_power_w),
+        "efficiency_propulsive": _ratio(useful, s.flow_work_w),
+        "efficiency_overall": _ratio(useful, s.thr_power_w),
+        "h2_rate_mol_s": s.h2, "cl2_rate_mol_s": s.cl2,
+        "h2_total_mol": float(y[lay.acc["h2_mol"]]),
+        "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
+        "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
+    }
+
+
+# ------------------------------------------------------------------ observers and results
+
+
+class RunObserver:
+    """Receives what a run produces. Subclass and override what you need."""
+
+    def samples(self, rows: list[dict]) -> None: ...
+
+    def event(self, time_s: float, kind: str, leg: int, message: str) -> None: ...
+
+    def leg(self, record: dict) -> None: ...
+
+    def progress(self, time_s: float, time_limit_s: float, wall_s: float) -> None: ...
+
+
+@dataclass
+class RunResult:
+    """Everything a run produced, in memory."""
+
+    series: dict[str, np.ndarray]
+    events: list[dict]
+    legs: list[dict]
+    summary: dict[str, float | str]
+    ending_reason: str
+    ending_kind: str
+    """'complete', 'limit' (stopped early by a stop condition or trigger) or 'failure'."""
+    final_state: np.ndarray
+    totals: dict[str, float]
+    """Accumulated energies [J], charge [C] and gas [mol] at the end (ACC_NAMES)."""
+    wall_time_s: float
+    rhs_calls: int
+
+
+@dataclass
+class _Cond:
+    kind: str  # 'leg', 'trigger', 'stop'
+    name: str  # condition key
+    threshold: float
+    owner: int  # leg index / trigger index / -1
+    label: str
+    direction: int = 0
+
+
+_DIRECTION = {
+    "distance": 1, "total_distance_above": 1, "speed_above": 1, "speed_below": -1,
+    "soc_below": -1, "cell_voltage_below": -1, "duct_temperature_rise_above": 1,
+    "battery_temperature_above": 1, "magnet_temperature_above": 1, "time_after": 1,
+    "pack_headroom": -1,
+}
+
+
+@dataclass
+class _Mission:
+    leg_index: int = 0
+    leg_t0: float = 0.0
+    leg_x0: float = 0.0
+    leg_energy0: float = 0.0
+    leg_samples: list = field(default_factory=list)
+    derate: float = 1.0
+    base_hotel_w: float = 0.0
+    fired: set = field(default_factory=set)
+    ending: str = ""
+    ending_kind: str = ""
+
+
+class MissionRunner:
+    """Flies one scenario on one plant. ``run()`` returns a :class:`RunResult`."""
+
+    def __init__(self, plant: Plant, scenario: ScenarioFile, *, sample_s: float | None = None,
+                 observer: RunObserver | None = None, chunk_wall_s: float = 2.0,
+                 method: str = "RK45") -> None:
+        self.plant = plant
+        self.sc = scenario
+        self.model = VesselModel(plant)
+        self.sample_s = float(sample_s or scenario.output.sample)
+        self.obs = observer or RunObserver()
+        self.method = method
+        self.rtol = scenario.solver.rtol
+        self.max_step = scenario.solver.max_step
+        self.time_limit = scenario.limits.time
+        self.legs: list[LegSpec] = list(scenario.leg)
+        self.triggers: list[TriggerSpec] = list(scenario.trigger)
+        self.leg_names = {leg.name: i for i, leg in enumerate(self.legs)}
+        self._events: list[dict] = []
+        self._legs_out: list[dict] = []
+        self._rows: list[dict] = []
+        self._pending_rows: list[dict] = []
+        self.chunk_wall_s = chunk_wall_s
+        lay = self.model.lay
+        self.atol = np.full(lay.size, 1e-6)
+        self.atol[I_XG] = self.atol[I_XW] = 1e-4
+        self.atol[I_SOC] = 1e-10
+        self.atol[I_RC1] = self.atol[I_RC2] = 1e-7
+        for k in range(lay.i_acc, lay.size):
+            self.atol[k] = 1e-3
+        self.atol[lay.acc["h2_mol"]] = self.atol[lay.acc["cl2_mol"]] = 1e-9
+        self.atol[lay.acc["o2_mol"]] = 1e-9
+        self.atol[lay.acc["charge_c"]] = 1e-4
+
+    # ------------------------------------------------------------------ conditions
+    def _value(self, c: _Cond, t: float, y: np.ndarray) -> float:
+        """Signed distance of a condition from its threshold; it holds when the value has
+        crossed zero in the condition's direction."""
+        m = self.m
+        n = c.name
+        if n == "distance":
+            return float(y[I_XG]) - m.leg_x0 - c.threshold
+        if n == "total_distance_above":
+            return float(y[I_XG]) - c.threshold
+        if n in ("speed_above", "speed_below"):
+            return float(y[I_V]) - c.threshold
+        if n == "soc_below":
+            return float(y[I_SOC]) - c.threshold
+        if n == "battery_temperature_above":
+            return float(y[I_TB]) - c.threshold
+        if n == "time_after":
+            return t - c.threshold
+        lay = self.model.lay
+        if n == "magnet_temperature_above":
+            return max(float(v) - lim for v, lim in
+                       zip(y[lay.i_mag:lay.i_mag + lay.n_thr], self._mag_limits(c), strict=True))
+        s = self.model.evaluate(t, y)
+        if n == "cell_voltage_below":
+            return s.cell_voltage_v - c.threshold
+        if n == "duct_temperature_rise_above":
+            return max(s.duct_rise_k) - c.threshold
+        if n == "pack_headroom":
+            return s.pack_headroom_w
+        raise KeyError(n)
+
+    def _mag_limits(self, c: _Cond) -> list[float]:
+        if c.kind == "stop" and math.isinf(c.threshold):
+            return [u.magnet_max_c for u in self.plant.thrusters]
+        return [c.threshold] * len(self.plant.thrusters)
+
+    def _holds(self, c: _Cond, t: float, y: np.ndarray) -> bool:
+        v = self._value(c, t, y)
+        return v >= 0 if c.direction > 0 else v <= 0
+
+    def _conditions_from(self, conds: Conditions, kind: str, owner: int, label: str):
+        out = []
+        for name, thr in conds.given().items():
+            if name == "duration":
+                continue
+            out.append(_Cond(kind, name, float(thr), owner, label, _DIRECTION[name]))
+        return out
+
+    def _stop_conditions(self) -> list[_Cond]:
+        lim = self.sc.limits
+        cell = self.plant.pack.cell
+        out = [
+            _Cond("stop", "soc_below", lim.state_of_charge_min, -1,
+                  "pack empty (state of charge at its minimum)", -1),
+            _Cond("stop", "cell_voltage_below", cell.v_min, -1, "cell under-voltage", -1),
+            _Cond("stop", "pack_headroom", 0.0, -1,
+                  "the pack cannot deliver the demanded power", -1),
+            _Cond("stop", "battery_temperature_above", lim.battery_temperature_max, -1,
+                  "battery temperature limit", 1),
+        ]
+        if lim.magnet_temperature_max is not None:
+            out.append(_Cond("stop", "magnet_temperature_above", lim.magnet_temperature_max, -1,
+                             "magnet temperature limit", 1))
+        elif any(math.isfinite(u.magnet_max_c) for u in self.plant.thrusters):
+            out.append(_Cond("stop", "magnet_temperature_above", math.inf, -1,
+                             "magnet temperature limit (grade maximum)", 1))
+        if lim.duct_temperature_rise_max is not None:
+            out.append(_Cond("stop", "duct_temperature_rise_above", lim.duct_temperature_rise_max,
+                             -1, "duct temperature-rise limit", 1))
+        return out
+
+    def _active_conditions(self) -> list[_Cond]:
+        m = self.m
+        leg = self.legs[m.leg_index]
+        conds = self._conditions_from(leg.until, "leg", m.leg_index, leg.name)
+        for i, trig in enumerate(self.triggers):
+            if i not in m.fired:
+                conds += self._conditions_from(trig.when, "trigger", i, trig.name)
+        return conds + self._stops
+
+    # ------------------------------------------------------------------ legs
+    def _start_leg(self, index: int, t: float, y: np.ndarray) -> np.ndarray:
+        m = self.m
+        m.leg_index, m.leg_t0 = index, t
+        m.leg_x0 = float(y[I_XG])
+        m.leg_energy0 = float(y[self.model.lay.acc["energy_pack_terminal_j"]])
+        m.leg_samples = []
+        leg = self.legs[index]
+        c = Control(mode=leg.mode, setpoint=leg.setpoint, derate=m.derate,
+                    hotel_w=leg.hotel if leg.hotel is not None else m.base_hotel_w)
+        y = y.copy()
+        if c.mode == "speed":
+            self._tune_speed_hold(c, leg, y)
+            y[self.model.lay.i_pi] = 0.0
+        self.model.control = c
+        self.model._cache_key = None
+        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}")
+        return y
+
+    def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
+        """Feed-forward from the steady solution at the target speed; PI gains by pole placement
+        on the linearised surge equation (critically damped, closed-loop time constant half the
+        open-loop one, at least 2 s), unless the leg gives them."""
+        p = self.plant
+        target = c.target
+        soc = float(y[I_SOC])
+        try:
+            ff = steady_at_speed(p, target, soc=soc, hotel_w=c.hotel_w).thruster_voltage_v
+        except SteadyError:
+            ff = p.drive_max_voltage_v
+        c.feedforward_v = ff
+        probe = VesselModel(p)
+        probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
+        yy = y.copy()
+        dv = max(1e-3, 1e-3 * target)
+        yy[I_V] = target + dv
+        hi = probe.evaluate(0.0, yy)
+        yy[I_V] = max(target - dv, 0.0)
+        lo = probe.evaluate(0.0, yy)
+        damping = ((hi.resistance_n - hi.total_thrust_n) - (lo.resistance_n - lo.total_thrust_n)) \
+            / (target + dv - max(target - dv, 0.0))
+        yy[I_V] = target
+        probe.control = Control(mode="voltage", setpoint=ff * 1.01 + 1e-3, hotel_w=c.hotel_w)
+        up = probe.evaluate(0.0, yy)
+        probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
+        mid = probe.evaluate(0.0, yy)
+        gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
+        mass = p.total_mass_kg
+        damping = max(damping, 1e-6)
+        gain = max(gain, 1e-9)
+        tau_cl = min(max(0.5 * mass / damping, 2.0), 600.0)
+        omega = 1.0 / tau_cl
+        if leg.speed_gain is not None:
+            c.kp_v_per_m_s = leg.speed_gain
+            ti = leg.speed_reset_time if leg.speed_reset_time is not None else 2.0 * tau_cl
+            c.ki_v_per_m = leg.speed_gain / ti
+        else:
+            c.kp_v_per_m_s = max(0.0, (2.0 * mass * omega - damping) / gain)
+            c.ki_v_per_m = mass * omega**2 / gain
+            if leg.speed_reset_time is not None:
+                c.ki_v_per_m = c.kp_v_per_m_s / leg.speed_reset_time
+
+    def _end_leg(self, t: float, y: np.ndarray, ending: str) -> None:
+        m = self.m
+        leg = self.legs[m.leg_index]
+        dur = t - m.leg_t0
+        dist = float(y[I_XG]) - m.leg_x0
+        energy = float(y[self.model.lay.acc["energy_pack_terminal_j"]]) - m.leg_energy0
+        rec = {"index": m.leg_index, "name": leg.name, "t_start_s": m.leg_t0, "t_end_s": t,
+               "distance_m": dist, "energy_j": energy,
+               "mean_speed_m_s": dist / dur if dur > 0 else 0.0, "ending": ending}
+        self._legs_out.append(rec)
+        self.obs.leg(rec)
+
+    def _emit(self, t: float, kind: str, leg: int, message: str) -> None:
+        ev = {"time_s": t, "kind": kind, "leg": leg, "message": message}
+        self._events.append(ev)
+        self.obs.event(t, kind, leg, message)
+
+    # ------------------------------------------------------------------ integration
+    def _record(self, t: float, y: np.ndarray) -> None:
+        row = sample_row(self.model, t, y, self.m.leg_index)
+        for k, v in row.items():
+            if isinstance(v, float) and not math.isfinite(v):
+                raise SolverFailure(f"non-finite value of {k}", t,
+                                    self.legs[self.m.leg_index].name, self._state_dict(y))
+        self._rows.append(row)
+        self._pending_rows.append(row)
+
+    def _state_dict(self, y: np.ndarray) -> dict:
+        return {"speed_m_s": float(y[I_V]), "distance_m": float(y[I_XG]),
+                "soc": float(y[I_SOC]), "battery_c": float(y[I_TB])}
+
+    def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Cond]):
+        """Integrate from t0 towards t1; stop at the first condition that fires."""
+        model = self.model
+
+        def make(c: _Cond):
+            def g(t, y):
+                return self._value(c, t, y)
+
+            g.terminal = True
+            g.direction = c.direction
+            return g
+
+        events = [make(c) for c in conds]
+        try:
+            sol = solve_ivp(model.rhs, (t0, t1), y0, method=self.method, events=events,
+                            dense_output=True, rtol=self.rtol, atol=self.atol,
+                            max_step=self.max_step)
+        except SolverFailure:
+            raise
+        except Exception as exc:  # the model raised inside the integrator
+            raise SolverFailure(f"model failure ({type(exc).__name__}: {exc})", t0,
+                                self.legs[self.m.leg_index].name, self._state_dict(y0)) from exc
+        if sol.status == -1:
+            raise SolverFailure(f"integrator failure ({sol.message})", float(sol.t[-1]),
+                                self.legs[self.m.leg_index].name, self._state_dict(sol.y[:, -1]))
+        fired = None
+        t_end, y_end = float(sol.t[-1]), sol.y[:, -1].copy()
+        if sol.status == 1:
+            best = math.inf
+            for c, te, ye in zip(conds, sol.t_events, sol.y_events, strict=True):
+                if len(te) and te[0] < best:
+                    best, fired = float(te[0]), c
+                    t_end, y_end = float(te[0]), ye[0].copy()
+        # samples on the global grid inside (t0, t_end), then the segment end itself
+        k0 = math.floor(t0 / self.sample_s) + 1
+        k1 = math.ceil(t_end / self.sample_s) - 1
+        if k1 >= k0:
+            ts = np.arange(k0, k1 + 1) * self.sample_s
+            ys = sol.sol(ts)
+            for j, ts_j in enumerate(ts):
+                self._record(float(ts_j), ys[:, j])
+        return t_end, y_end, fired, sol
+
+    # ------------------------------------------------------------------ the mission process
+    def _process(self, env: simpy.Environment, y: np.ndarray):
+        m = self.m
+        t = 0.0
+        y = self._start_leg(0, t, y)
+        self._record(t, y)
+        wall0 = last_flush = _time.perf_counter()
+        chunk = self.time_limit / 50.0  # progress and flushes on long legs
+        while True:
+            leg = self.legs[m.leg_index]
+            conds = self._active_conditions()
+            fired = next((c for c in conds if self._holds(c, t, y)), None)
+            if fired is None:
+                nxt = env.peek()
+                if nxt <= env.now:  # a scheduled event is due now: let it act first
+                    yield env.timeout(0)
+                    continue
+                leg_end = (m.leg_t0 + leg.until.duration if leg.until.duration is not None
+                           else math.inf)
+                horizon = min(self.time_limit, leg_end, nxt, t + chunk)
+                t, y, fired, _ = self._segment(t, horizon, y, conds)
+                yield env.timeout(max(0.0, t - env.now))
+                wall = _time.perf_counter()
+                self.obs.progress(t, self.time_limit, wall - wall0)
+                if wall - last_flush > self.chunk_wall_s:
+                    self._flush_rows()
+                    last_flush = wall
+                if fired is None:
+                    if t >= self.time_limit:
+                        self._record(t, y)
+                        self._emit(t, "stop", m.leg_index, "time limit")
+                        self._finish(t, y, "time limit", "limit")
+                        return
+                    if t >= leg_end:
+                        self._record(t, y)
+                        y = self._next_leg(t, y, f"duration {leg.until.duration:g} s")
+                        if m.ending:
+                            return
+                    continue  # a chunk boundary or a scheduled event: nothing to record
+            self._record(t, y)
+            y = self._handle(fired, t, y)
+            if m.ending:
+                return
+
+    def _handle(self, c: _Cond, t: float, y: np.ndarray) -> np.ndarray:
+        m = self.m
+        if c.kind == "stop":
+            self._emit(t, "stop", m.leg_index, c.label)
+            self._finish(t, y, c.label, "limit")
+            return y
+        if c.kind == "leg":
+            return self._next_leg(t, y, f"{c.name.replace('_', ' ')} {c.threshold:g}")
+        trig = self.triggers[c.owner]
+        m.fired.add(c.owner)
+        self._emit(t, "trigger", m.leg_index,
+                   f"trigger {trig.name!r} ({c.name.replace('_', ' ')} {c.threshold:g}): "
+                   f"{trig.then}")
+        if trig.then == "stop":
+            self._finish(t, y, f"stopped by trigger {trig.name!r}", "limit")
+            return y
+        if trig.then == "goto":
+            self._end_leg(t, y, f"trigger {trig.name!r}")
+            self._flush_rows()
+            return self._start_leg(self.leg_names[trig.leg], t, y)
+        if trig.then == "derate":
+            m.derate *= trig.factor
+            self.model.control.derate = m.derate
+        elif trig.then == "hotel":
+            m.base_hotel_w = trig.hotel
+            if self.legs[m.leg_index].hotel is None:
+                self.model.control.hotel_w = trig.hotel
+        self.model._cache_key = None
+        return y
+
+    def _next_leg(self, t: float, y: np.ndarray, why: str) -> np.ndarray:
+        m = self.m
+        self._end_leg(t, y, why)
+        self._emit(t, "leg end", m.leg_index, f"leg {self.legs[m.leg_index].name!r} ended: {why}")
+        self._flush_rows()
+        if m.leg_index + 1 >= len(self.legs):
+            self._finish(t, y, "mission complete", "complete")
+            return y
+        return self._start_leg(m.leg_index + 1, t, y)
+
+    def _flush_rows(self) -> None:
+        if self._pending_rows:
+            self.obs.samples(self._pending_rows)
+            self._pending_rows = []
+
+    def _finish(self, t: float, y: np.ndarray, reason: str, kind: str) -> None:
+        m = self.m
+        if not self._legs_out or self._legs_out[-1]["index"] != m.leg_index or \
+                self._legs_out[-1]["t_end_s"] != t:
+            if kind != "complete":
+                self._end_leg(t, y, reason)
+        m.ending, m.ending_kind = reason, kind
+        self._final_t, self._final_y = t, y
+        self._emit(t, "end", m.leg_index, reason)
+        self._flush_rows()
+
+    def _scheduled(self, env: simpy.Environment, at: float, hotel_w: float):
+        yield env.timeout(at)
+        m = self.m
+        m.base_hotel_w = hotel_w
+        if self.legs[m.leg_index].hotel is None:
+            self.model.control.hotel_w = hotel_w
+            self.model._cache_key = None
+        self._emit(env.now, "schedule", m.leg_index, f"hotel load set to {hotel_w:g} W")
+
+    # ------------------------------------------------------------------ entry point
+    def run(self) -> RunResult:
+        sc, p = self.sc, self.plant
+        wall0 = _time.perf_counter()
+        self.m = _Mission(base_hotel_w=p.hotel_w)
+        self._stops = self._stop_conditions()
+        st = sc.start
+        t_w = p.water.t_c
+        y0 = initial_state(p, st.state_of_charge, st.speed,
+                           st.battery_temperature if st.battery_temperature is not None else t_w,
+                           st.magnet_temperature if st.magnet_temperature is not None else t_w)
+        env = simpy.Environment()
+        for s in sorted(sc.schedule, key=lambda s: s.at):
+            if s.at < self.time_limit:
+                env.process(self._scheduled(env, s.at, s.hotel))
+        proc = env.process(self._process(env, y0))
+        env.run(until=proc)
+        return self._result(_time.perf_counter() - wall0)
+
+    def _result(self, wall: float) -> RunResult:
+        rows = self._rows
+        # drop exact duplicate instants (an event on a grid time), keeping the later row
+        keep = []
+        for i, r in enumerate(rows):
+            if i + 1 < len(rows) and rows[i + 1]["time_s"] == r["time_s"]:
+                continue
+            keep.append(r)
+        series = {k: np.array([r[k] for r in keep]) for k in keep[0]}
+        y = self._final_y
+        lay = self.model.lay
+        totals = {name: float(y[lay.acc[name]]) for name in ACC_NAMES}
+        m = self.m
+        dist = float(y[I_XG])
+        dur = self._final_t
+        eff = series["efficiency_overall"]
+        driving = series["thruster_power_w"] > 0
+        useful = totals["energy_useful_j"]
+        thr_energy = (totals["energy_joule_j"] + totals["energy_electrode_j"]
+                      + totals["energy_friction_j"] + totals["energy_wake_j"] + useful)
+        summary = {
+            "distance_m": dist, "duration_s": dur,
+            "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
+            "energy_out_j": totals["energy_pack_terminal_j"],
+            "energy_per_distance_j_m": totals["energy_pack_terminal_j"] / dist if dist > 0 else 0.0,
+            "mean_overall_efficiency": useful / thr_energy if thr_energy > 0 else 0.0,
+            "best_overall_efficiency": float(eff[driving].max()) if driving.any() else 0.0,
+            "end_state_of_charge": float(y[I_SOC]),
+            "peak_duct_temperature_rise_k": float(np.max(series["duct_temperature_rise_k"])),
+            "peak_battery_temperature_c": float(np.max(series["battery_temperature_c"])),
+            "peak_magnet_temperature_c": float(np.max(series["magnet_temperature_c"])),
+            "h2_total_mol": totals["h2_mol"], "cl2_total_mol": totals["cl2_mol"],
+            "o2_total_mol": totals["o2_mol"],
+            "peak_pack_current_a": float(np.max(np.abs(series["pack_current_a"]))),
+            "peak_thruster_current_a": float(np.max(np.abs(
+                np.sum(series["thruster_current_a"], axis=1)))),
+            "ending_reason": m.ending,
+        }
+        return RunResult(series=series, events=list(self._events), legs=list(self._legs_out),
+                         summary=summary, ending_reason=m.ending, ending_kind=m.ending_kind,
+                         final_state=y, totals=totals, wall_time_s=wall,
+                         rhs_calls=self.model.n_rhs)
+
+
+SUMMARY_UNITS = {
+    "distance_m": "m", "duration_s": "s", "mean_speed_over_ground_m_s": "m/s",
+    "energy_out_j": "J", "energy_per_distance_j_m": "J/m", "mean_overall_efficiency": "1",
+    "best_overall_efficiency": "1", "end_state_of_charge": "1",
+    "peak_duct_temperature_rise_k": "K", "peak_battery_temperature_c": "degC",
+    "peak_magnet_temperature_c": "degC", "h2_total_mol": "mol", "cl2_total_mol": "mol",
+    "o2_total_mol": "mol", "peak_pack_current_a": "A", "peak_thruster_current_a": "A",
+    "ending_reason": "",
+}
+
+
+def _describe(leg: LegSpec, derate: float) -> str:
+    unit = {"voltage": "V", "current": "A", "power": "W", "speed": "m/s"}[leg.mode]
+    d = f" × derate {derate:g}" if derate != 1.0 else ""
+    return f"hold {leg.mode} {leg.setpoint:g} {unit}{d}"
+
+
+ProgressFn = Callable[[float, float, float], None]

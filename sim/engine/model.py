@@ -1,0 +1,324 @@
+"""The coupled vessel model: a flat state vector, the algebraic drive solution and the ODE
+right-hand side.
+
+State vector (all SI, temperatures in °C)::
+
+    0  speed through water V [m/s]          8+n  ...
+    1  distance over ground [m]             magnet temperature of each thruster design [°C]
+    2  distance through water [m]          then, in order:
+    3  state of charge [-]                   speed-hold integral term [V]
+    4  RC voltage 1 [V]                      accumulated quantities (ACC_NAMES)
+    5  RC voltage 2 [V]
+    6  battery temperature [°C]
+
+Dynamics (1-DOF surge): (m + m_a)·dV/dt = ΣT(V, command) − R(V). A steady water current changes
+speed over ground, not speed through water.
+
+The algebraic part is solved in closed form where the physics allows (per-unit current control,
+pack current for a power demand); the fixed-power mode and the speed hold's saturation use a
+bracketed root (Brent) that cannot fail silently.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import numpy as np
+from scipy.optimize import brentq
+
+from sim.engine.plant import Plant
+from sim.physics import battery as bat
+from sim.physics.thruster import operating_point
+
+I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)
+N_FIXED = 7
+
+ACC_NAMES = (
+    "energy_pack_terminal_j",  # ∫ V_term·I_pack dt
+    "energy_pack_ocv_j",  # ∫ OCV·I_pack dt (chemical energy drawn)
+    "energy_joule_j",
+    "energy_electrode_j",
+    "energy_friction_j",
+    "energy_wake_j",
+    "energy_drive_loss_j",
+    "energy_hotel_j",
+    "energy_useful_j",  # ∫ ΣT·V dt
+    "energy_hull_j",  # ∫ R·V dt
+    "charge_c",  # ∫ I_pack dt
+    "h2_mol",
+    "cl2_mol",
+    "o2_mol",
+)
+
+
+@dataclasses.dataclass
+class Control:
+    """What the drive is asked to do during a leg (mutable only between integration segments)."""
+
+    mode: str  # 'voltage' | 'current' | 'power' | 'speed'
+    setpoint: float
+    derate: float = 1.0
+    hotel_w: float = 0.0
+    feedforward_v: float = 0.0
+    kp_v_per_m_s: float = 0.0
+    ki_v_per_m: float = 0.0
+
+    @property
+    def target(self) -> float:
+        """The setpoint after derating (speed holds derate the target speed)."""
+        return self.setpoint * self.derate
+
+
+class Layout:
+    """Indices of the state vector for a plant."""
+
+    def __init__(self, plant: Plant) -> None:
+        self.n_thr = len(plant.thrusters)
+        self.i_mag = N_FIXED
+        self.i_pi = N_FIXED + self.n_thr
+        self.i_acc = self.i_pi + 1
+        self.acc = {name: self.i_acc + k for k, name in enumerate(ACC_NAMES)}
+        self.size = self.i_acc + len(ACC_NAMES)
+
+
+def initial_state(plant: Plant, soc: float, speed_m_s: float, battery_c: float,
+                  magnet_c: float) -> np.ndarray:
+    lay = Layout(plant)
+    y = np.zeros(lay.size)
+    y[I_V] = speed_m_s
+    y[I_SOC] = soc
+    y[I_TB] = battery_c
+    y[lay.i_mag:lay.i_mag + lay.n_thr] = magnet_c
+    return y
+
+
+class Snapshot:
+    """The algebraic solution at one instant (plain floats; per-thruster lists)."""
+
+    __slots__ = (
+        "cell_voltage_v",
+        "cl2",
+        "command_v",
+        "current_a",
+        "drc1",
+        "drc2",
+        "drive_loss_w",
+        "duct_rise_k",
+        "electrode_w",
+        "feasible",
+        "field_t",
+        "flow_work_w",
+        "friction_w",
+        "h2",
+        "hotel_w",
+        "joule_w",
+        "o2",
+        "ocv_v",
+        "pack_current_a",
+        "pack_headroom_w",
+        "pack_heat_w",
+        "pack_power_w",
+        "pack_voltage_v",
+        "resistance_n",
+        "saturated",
+        "thr_power_w",
+        "thrust_n",
+        "total_thrust_n",
+        "voltage_v",
+        "wake_w",
+    )
+
+
+class VesselModel:
+    """Right-hand side and algebraic outputs for one plant; holds the current Control.
+
+    The object is the single place where run-time state outside the state vector lives.
+    """
+
+    def __init__(self, plant: Plant) -> None:
+        self.plant = plant
+        self.lay = Layout(plant)
+        self.control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
+        self._cache_key: tuple | None = None
+        self._cache: Snapshot | None = None
+        self._ducts = {}  # (index, rounded field) -> DuctThruster
+        self.n_rhs = 0
+
+    # ------------------------------------------------------------------ thrusters
+    def field_t(self, k: int, magnet_c: float) -> float:
+        u = self.plant.thrusters[k]
+        if u.alpha_br_per_k == 0.0:
+            return u.b_ref_tesla
+        return u.b_ref_tesla * (1.0 + u.alpha_br_per_k * (magnet_c - u.t_ref_c))
+
+    def _duct(self, k: int, b: float):
+        u = self.plant.thrusters[k]
+        if b == u.b_ref_tesla:
+            return u.duct
+        return dataclasses.replace(u.duct, b_tesla=b)
+
+    def _unit_op(self, k: int, speed: float, volts: float, b: float):
+        """Operating point of one unit of thruster k at a commanded voltage, with the unit's
+        converter current limit applied (the converter then regulates current)."""
+        duct = self._duct(k, b)
+        water = self.plant.water
+        op = operating_point(duct, water, speed, voltage_v=volts)
+        imax = self.plant.drive_max_current_a
+        if abs(float(op.current_a)) > imax:
+            op = operating_point(duct, water, speed, current_a=math.copysign(imax, volts))
+            return op, True
+        return op, False
+
+    def _all_units(self, speed: float, volts: float, fields: list[float]):
+        ops, sat = [], False
+        for k in range(len(self.plant.thrusters)):
+            op, s = self._unit_op(k, speed, volts, fields[k])
+            ops.append(op)
+            sat = sat or s
+        return ops, sat
+
+    def _thruster_power(self, speed: float, volts: float, fields: list[float]) -> float:
+        ops, _ = self._all_units(speed, volts, fields)
+        return sum(float(op.electrical_power_w) * u.units
+                   for op, u in zip(ops, self.plant.thrusters, strict=True))
+
+    # ------------------------------------------------------------------ algebra
+    def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
+        key = (t, y.tobytes())
+        if key == self._cache_key:
+            return self._cache
+        s = self._evaluate(y)
+        self._cache_key, self._cache = key, s
+        return s
+
+    def _evaluate(self, y: np.ndarray) -> Snapshot:
+        p, c, lay = self.plant, self.control, self.lay
+        speed = float(y[I_V])
+        fields = [self.field_t(k, float(y[lay.i_mag + k])) for k in range(lay.n_thr)]
+        vmax = p.drive_max_voltage_v
+        saturated = False
+        mode = c.mode
+        if mode == "speed":
+            cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + float(y[lay.i_pi])
+            if cmd > vmax or cmd < -vmax:
+                saturated = True
+                cmd = max(-vmax, min(vmax, cmd))
+            mode, value = "voltage", cmd
+        elif mode == "power":
+            target = c.target
+            if target <= 0.0:
+                value = 0.0
+            elif self._thruster_power(speed, vmax, fields) <= target:
+                value, saturated = vmax, True
+            else:
+                value = brentq(lambda v: self._thruster_power(speed, v, fields) - target,
+                               0.0, vmax, xtol=1e-9, rtol=1e-12, maxiter=200)
+            mode = "voltage"
+        else:
+            value = c.target
+
+        ops = []
+        if mode == "voltage":
+            value = max(-vmax, min(vmax, value))
+            if value != c.target and c.mode == "voltage":
+                saturated = True
+            ops, sat = self._all_units(speed, value, fields)
+            saturated = saturated or sat
+        else:  # current: the total is shared equally by all units, each under its own limit
+            per_unit = value / p.n_units
+            imax = p.drive_max_current_a
+            if abs(per_unit) > imax:
+                per_unit, saturated = math.copysign(imax, per_unit), True
+            for k in range(lay.n_thr):
+                duct = self._duct(k, fields[k])
+                op = operating_point(duct, p.water, speed, current_a=per_unit)
+                if abs(float(op.voltage_v)) > vmax:
+                    op = operating_point(duct, p.water, speed,
+                                         voltage_v=math.copysign(vmax, per_unit))
+                    saturated = True
+                ops.append(op)
+
+        s = Snapshot()
+        s.command_v = float(ops[0].voltage_v) if ops else 0.0
+        s.saturated = saturated
+        s.field_t = fields
+        n = [u.units for u in p.thrusters]
+        s.thrust_n = [float(op.thrust_n) * m for op, m in zip(ops, n, strict=True)]
+        s.current_a = [float(op.current_a) * m for op, m in zip(ops, n, strict=True)]
+        s.voltage_v = [float(op.voltage_v) for op in ops]
+        s.duct_rise_k = [float(op.outlet_temperature_rise_k) for op in ops]
+        s.joule_w = sum(float(op.joule_loss_w) * m for op, m in zip(ops, n, strict=True))
+        s.electrode_w = sum(float(op.electrode_loss_w) * m for op, m in zip(ops, n, strict=True))
+        s.friction_w = sum(float(op.friction_loss_w) * m for op, m in zip(ops, n, strict=True))
+        s.wake_w = sum(float(op.wake_loss_w) * m for op, m in zip(ops, n, strict=True))
+        s.flow_work_w = sum(float(op.flow_work_w) * m for op, m in zip(ops, n, strict=True))
+        s.h2 = sum(float(op.h2_mol_s) * m for op, m in zip(ops, n, strict=True))
+        s.cl2 = sum(float(op.cl2_mol_s) * m for op, m in zip(ops, n, strict=True))
+        s.o2 = sum(float(op.o2_mol_s) * m for op, m in zip(ops, n, strict=True))
+        s.thr_power_w = sum(float(op.electrical_power_w) * m for op, m in zip(ops, n, strict=True))
+        s.total_thrust_n = sum(s.thrust_n)
+        eta = p.drive_efficiency
+        bus = s.thr_power_w / eta if s.thr_power_w >= 0 else s.thr_power_w * eta
+        s.drive_loss_w = bus - s.thr_power_w
+        s.hotel_w = c.hotel_w + p.cryocooler_w
+        s.pack_power_w = bus + s.hotel_w
+
+        soc, temp = float(y[I_SOC]), float(y[I_TB])
+        v_rc = float(y[I_RC1]) + float(y[I_RC2])
+        pk = p.pack
+        op = bat.solve_current_for_power(pk, soc, v_rc, temp, s.pack_power_w)
+        s.feasible = bool(op.feasible)
+        s.pack_headroom_w = float(op.max_power_w) - s.pack_power_w
+        s.pack_current_a = float(op.current_a)
+        s.pack_voltage_v = float(op.terminal_v)
+        s.cell_voltage_v = float(op.cell_v)
+        s.ocv_v = float(bat.ocv_v(pk, soc))
+        s.pack_heat_w = float(bat.heat_generation_w(pk, s.pack_current_a, soc, temp,
+                                                    (float(y[I_RC1]), float(y[I_RC2]))))
+        d1, d2 = bat.drc_dt(pk, soc, temp, s.pack_current_a, (float(y[I_RC1]), float(y[I_RC2])))
+        s.drc1, s.drc2 = float(d1), float(d2)
+        w = p.water
+        s.resistance_n = float(p.resistance.resistance_n(speed, w.rho_kg_m3, w.nu_m2_s))
+        return s
+
+    # ------------------------------------------------------------------ derivatives
+    def rhs(self, t: float, y: np.ndarray) -> np.ndarray:
+        self.n_rhs += 1
+        s = self.evaluate(t, y)
+        p, lay, c = self.plant, self.lay, self.control
+        dy = np.zeros_like(y)
+        speed = float(y[I_V])
+        dy[I_V] = (s.total_thrust_n - s.resistance_n) / p.total_mass_kg
+        dy[I_XG] = speed + p.water_current_m_s
+        dy[I_XW] = speed
+        dy[I_SOC] = bat.dsoc_dt(p.pack, s.pack_current_a)
+        dy[I_RC1] = s.drc1
+        dy[I_RC2] = s.drc2
+        dy[I_TB] = bat.battery_temperature_rate_k_s(p.pack, s.pack_heat_w, float(y[I_TB]),
+                                                    p.water.t_c, p.battery_ua_w_k)
+        for k, u in enumerate(p.thrusters):
+            duct_mean_c = p.water.t_c + 0.5 * s.duct_rise_k[k]
+            dy[lay.i_mag + k] = (u.magnet_conductance_w_k * (duct_mean_c - float(y[lay.i_mag + k]))
+                                 / u.magnet_heat_capacity_j_k)
+        if c.mode == "speed":
+            err = c.target - speed
+            winding = s.saturated and ((err > 0 and s.command_v > 0) or
+                                       (err < 0 and s.command_v < 0))
+            dy[lay.i_pi] = 0.0 if winding else c.ki_v_per_m * err
+        a = lay.acc
+        dy[a["energy_pack_terminal_j"]] = s.pack_voltage_v * s.pack_current_a
+        dy[a["energy_pack_ocv_j"]] = s.ocv_v * s.pack_current_a
+        dy[a["energy_joule_j"]] = s.joule_w
+        dy[a["energy_electrode_j"]] = s.electrode_w
+        dy[a["energy_friction_j"]] = s.friction_w
+        dy[a["energy_wake_j"]] = s.wake_w
+        dy[a["energy_drive_loss_j"]] = s.drive_loss_w
+        dy[a["energy_hotel_j"]] = s.hotel_w
+        dy[a["energy_useful_j"]] = s.total_thrust_n * speed
+        dy[a["energy_hull_j"]] = s.resistance_n * speed
+        dy[a["charge_c"]] = s.pack_current_a
+        dy[a["h2_mol"]] = s.h2
+        dy[a["cl2_mol"]] = s.cl2
+        dy[a["o2_mol"]] = s.o2
+        return dy

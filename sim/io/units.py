@@ -1,0 +1,161 @@
+"""Quantities with units in input files, converted to plain SI floats at the edge.
+
+Every dimensional value in a vessel or scenario file is a string such as ``"3 kn"``,
+``"1.5 T"``, ``"48 V"``, ``"20 min"`` or ``"12 degC"``. :func:`to_si` parses it with pint, checks
+its dimension against what the key expects and returns a float in the SI unit the physics
+modules use (temperatures come back in °C, the unit the seawater correlations take).
+The physics core never sees pint.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+__all__ = ["KINDS", "UnitParseError", "to_si"]
+
+
+@dataclass(frozen=True)
+class Kind:
+    """What a key holds: the SI unit returned and a few examples of accepted input."""
+
+    name: str
+    si_unit: str
+    examples: str
+
+
+KINDS: dict[str, Kind] = {
+    k.name: k
+    for k in [
+        Kind("length", "m", '"0.5 m", "60 mm", "2 ft"'),
+        Kind("distance", "m", '"12 km", "3 nmi", "800 m"'),
+        Kind("area", "m**2", '"0.3 m^2", "1200 cm^2"'),
+        Kind("volume", "m**3", '"0.12 m^3", "120 L"'),
+        Kind("mass", "kg", '"180 kg", "2.5 t"'),
+        Kind("speed", "m/s", '"3 kn", "1.5 m/s"'),
+        Kind("time", "s", '"20 min", "1.5 h", "30 s"'),
+        Kind("force", "N", '"120 N", "1.2 kN"'),
+        Kind("power", "W", '"40 W", "1.2 kW"'),
+        Kind("voltage", "V", '"48 V", "600 mV"'),
+        Kind("current", "A", '"300 A", "25 mA"'),
+        Kind("resistance", "ohm", '"5 mohm", "0.02 ohm"'),
+        Kind("charge", "A*h", '"27.6 A*h", "100 Ah"'),
+        Kind("energy", "J", '"2 kWh", "3.6 MJ"'),
+        Kind("field", "T", '"1.5 T", "800 mT"'),
+        Kind("temperature", "degC", '"12 degC", "285 K", "54 degF"'),
+        Kind("temperature_difference", "K", '"10 K", "10 delta_degC"'),
+        Kind("pressure", "dbar", '"5 dbar", "150 kPa"'),
+        Kind("thermal_conductance", "W/K", '"2 W/K"'),
+        Kind("heat_capacity", "J/K", '"3.5 kJ/K"'),
+        Kind("gain_per_speed", "V/(m/s)", '"20 V/(m/s)"'),
+        Kind("gain_per_distance", "V/m", '"5 V/m"'),
+        Kind("volumetric_rate", "m**3/s", '"2 L/min"'),
+    ]
+}
+
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$")
+
+
+class UnitParseError(ValueError):
+    """A value could not be read as a quantity of the expected kind.
+
+    ``reason`` says what is wrong, ``allowed`` what would be accepted.
+    """
+
+    def __init__(self, reason: str, allowed: str) -> None:
+        self.reason = reason
+        self.allowed = allowed
+        super().__init__(f"{reason}; allowed: {allowed}")
+
+
+@lru_cache(maxsize=1)
+def _registry():
+    import pint
+
+    ureg = pint.UnitRegistry()
+    ureg.define("Ah = ampere * hour")
+    ureg.define("mAh = milliampere * hour")
+    return ureg
+
+
+@lru_cache(maxsize=4096)
+def _convert(number: float, unit_text: str, kind_name: str) -> float:
+    import pint
+
+    kind = KINDS[kind_name]
+    ureg = _registry()
+    try:
+        q = ureg.Quantity(number, unit_text)
+    except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError) as exc:
+        raise UnitParseError(f"unknown unit {unit_text!r}", f"a {kind.name}, e.g. {kind.examples}") from exc
+    except Exception as exc:  # pint raises a variety of parse errors (AttributeError, TokenError)
+        raise UnitParseError(
+            f"cannot read unit {unit_text!r}", f"a {kind.name}, e.g. {kind.examples}"
+        ) from exc
+    target = ureg.Unit(kind.si_unit)
+    if q.dimensionality != target.dimensionality:
+        raise UnitParseError(
+            f"{unit_text!r} is not a {kind.name} (it has dimension {q.dimensionality})",
+            f"a {kind.name}, e.g. {kind.examples}",
+        )
+    return float(q.to(target).magnitude)
+
+
+def to_si(value: object, kind_name: str) -> float:
+    """Read a quantity from a file value and return it as a float in the kind's SI unit.
+
+    Parameters
+    ----------
+    value : str, int or float
+        ``"3 kn"``-style text. A bare number is accepted only as 0 (zero needs no unit) for
+        kinds other than temperature; everything else must carry its unit.
+    kind_name : str
+        A key of :data:`KINDS`.
+
+    Returns
+    -------
+    float
+        The value in ``KINDS[kind_name].si_unit``.
+
+    Raises
+    ------
+    UnitParseError
+        With the reason and what is allowed.
+    """
+    kind = KINDS[kind_name]
+    allowed = f"a {kind.name} with its unit, e.g. {kind.examples}"
+    if isinstance(value, bool):
+        raise UnitParseError(f"got a true/false value ({value})", allowed)
+    if isinstance(value, int | float):
+        if not math.isfinite(value):
+            raise UnitParseError(f"{value} is not a finite number", allowed)
+        if value == 0 and kind.name != "temperature":
+            return 0.0
+        raise UnitParseError(f"the number {value} has no unit", allowed)
+    if not isinstance(value, str):
+        raise UnitParseError(f"expected text such as {kind.examples}, got a {_type_word(value)}",
+                             allowed)
+    text = value.strip()
+    if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"} or re.match(
+        r"^[-+]?(nan|inf)", text.lower()
+    ):
+        raise UnitParseError(f"{value!r} is not a finite number", allowed)
+    m = _NUMBER_UNIT.match(text)
+    if not m:
+        raise UnitParseError(f"{value!r} does not start with a number", allowed)
+    number = float(m.group(1))
+    unit_text = m.group(2)
+    if not unit_text:
+        if number == 0 and kind.name != "temperature":
+            return 0.0
+        raise UnitParseError(f"{value!r} has no unit", allowed)
+    result = _convert(number, unit_text, kind.name)
+    if not math.isfinite(result):
+        raise UnitParseError(f"{value!r} is not a finite quantity", allowed)
+    return result
+
+
+def _type_word(value: object) -> str:
+    return {list: "list", dict: "table", tuple: "list"}.get(type(value), type(value).__name__)
