@@ -50,8 +50,10 @@ class SolverFailure(RuntimeError):
 
     def __init__(self, message: str, t: float, leg: str, state: dict) -> None:
         self.t, self.leg, self.state = t, leg, state
-        super().__init__(f"{message} at t = {t:.3f} s in leg {leg!r}; state: "
-                         + ", ".join(f"{k} = {v:.6g}" for k, v in state.items()))
+        super().__init__(
+            f"{message} at t = {t:.3f} s in leg {leg!r}; state: "
+            + ", ".join(f"{k} = {v:.6g}" for k, v in state.items())
+        )
 
 
 # ------------------------------------------------------------------ outputs
@@ -65,8 +67,12 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "time_s": ("s", "mission time", None, f),
         "leg_index": ("1", "index of the active leg (0-based)", None, "int32"),
         "speed_through_water_m_s": ("m/s", "vessel speed relative to the water", None, f),
-        "speed_over_ground_m_s": ("m/s", "speed through water plus the along-track current",
-                                  None, f),
+        "speed_over_ground_m_s": (
+            "m/s",
+            "speed through water plus the along-track current",
+            None,
+            f,
+        ),
         "distance_m": ("m", "distance over ground along the track", None, f),
         "distance_through_water_m": ("m", "distance travelled relative to the water", None, f),
         "thrust_n": ("N", "thrust of each thruster design (all its units)", n, f),
@@ -84,8 +90,12 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "state_of_charge": ("1", "battery state of charge", None, f),
         "battery_temperature_c": ("degC", "lumped battery temperature", None, f),
         "joule_loss_w": ("W", "ohmic heating of the water in the ducts (J²/σ)", None, f),
-        "electrode_loss_w": ("W", "electrode drop × current (decomposition, overpotential, "
-                             "galvanic offset)", None, f),
+        "electrode_loss_w": (
+            "W",
+            "electrode drop × current (decomposition, overpotential, galvanic offset)",
+            None,
+            f,
+        ),
         "friction_loss_w": ("W", "duct friction and inlet/nozzle losses", None, f),
         "wake_loss_w": ("W", "kinetic energy left in the jet (momentum theory)", None, f),
         "drive_loss_w": ("W", "power-electronics loss", None, f),
@@ -111,25 +121,38 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
     p, lay = model.plant, model.lay
     useful = s.total_thrust_n * float(y[I_V])
     return {
-        "time_s": t, "leg_index": leg_index,
+        "time_s": t,
+        "leg_index": leg_index,
         "speed_through_water_m_s": float(y[I_V]),
         "speed_over_ground_m_s": float(y[I_V]) + p.water_current_m_s,
-        "distance_m": float(y[I_XG]), "distance_through_water_m": float(y[I_XW]),
-        "thrust_n": list(s.thrust_n), "thruster_current_a": list(s.current_a),
-        "thruster_voltage_v": list(s.voltage_v), "field_t": list(s.field_t),
+        "distance_m": float(y[I_XG]),
+        "distance_through_water_m": float(y[I_XW]),
+        "thrust_n": list(s.thrust_n),
+        "thruster_current_a": list(s.current_a),
+        "thruster_voltage_v": list(s.voltage_v),
+        "field_t": list(s.field_t),
         "duct_temperature_rise_k": list(s.duct_rise_k),
-        "magnet_temperature_c": [float(v) for v in y[lay.i_mag:lay.i_mag + lay.n_thr]],
-        "hull_resistance_n": s.resistance_n, "thruster_power_w": s.thr_power_w,
-        "pack_power_w": s.pack_power_w, "pack_current_a": s.pack_current_a,
-        "pack_voltage_v": s.pack_voltage_v, "cell_voltage_v": s.cell_voltage_v,
-        "state_of_charge": float(y[I_SOC]), "battery_temperature_c": float(y[I_TB]),
-        "joule_loss_w": s.joule_w, "electrode_loss_w": s.electrode_w,
-        "friction_loss_w": s.friction_w, "wake_loss_w": s.wake_w,
-        "drive_loss_w": s.drive_loss_w, "hotel_power_w": s.hotel_w, "useful_power_w": useful,
+        "magnet_temperature_c": [float(v) for v in y[lay.i_mag : lay.i_mag + lay.n_thr]],
+        "hull_resistance_n": s.resistance_n,
+        "thruster_power_w": s.thr_power_w,
+        "pack_power_w": s.pack_power_w,
+        "pack_current_a": s.pack_current_a,
+        "pack_voltage_v": s.pack_voltage_v,
+        "cell_voltage_v": s.cell_voltage_v,
+        "state_of_charge": float(y[I_SOC]),
+        "battery_temperature_c": float(y[I_TB]),
+        "joule_loss_w": s.joule_w,
+        "electrode_loss_w": s.electrode_w,
+        "friction_loss_w": s.friction_w,
+        "wake_loss_w": s.wake_w,
+        "drive_loss_w": s.drive_loss_w,
+        "hotel_power_w": s.hotel_w,
+        "useful_power_w": useful,
         "efficiency_electrical": _ratio(s.flow_work_w, s.thr_power_w),
         "efficiency_propulsive": _ratio(useful, s.flow_work_w),
         "efficiency_overall": _ratio(useful, s.thr_power_w),
-        "h2_rate_mol_s": s.h2, "cl2_rate_mol_s": s.cl2,
+        "h2_rate_mol_s": s.h2,
+        "cl2_rate_mol_s": s.cl2,
         "h2_total_mol": float(y[lay.acc["h2_mol"]]),
         "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
         "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
@@ -180,9 +203,16 @@ class _Cond:
 
 
 _DIRECTION = {
-    "distance": 1, "total_distance_above": 1, "speed_above": 1, "speed_below": -1,
-    "soc_below": -1, "cell_voltage_below": -1, "duct_temperature_rise_above": 1,
-    "battery_temperature_above": 1, "magnet_temperature_above": 1, "time_after": 1,
+    "distance": 1,
+    "total_distance_above": 1,
+    "speed_above": 1,
+    "speed_below": -1,
+    "soc_below": -1,
+    "cell_voltage_below": -1,
+    "duct_temperature_rise_above": 1,
+    "battery_temperature_above": 1,
+    "magnet_temperature_above": 1,
+    "time_after": 1,
     "pack_headroom": -1,
 }
 
@@ -204,9 +234,16 @@ class _Mission:
 class MissionRunner:
     """Flies one scenario on one plant. ``run()`` returns a :class:`RunResult`."""
 
-    def __init__(self, plant: Plant, scenario: ScenarioFile, *, sample_s: float | None = None,
-                 observer: RunObserver | None = None, chunk_wall_s: float = 2.0,
-                 method: str = "RK45") -> None:
+    def __init__(
+        self,
+        plant: Plant,
+        scenario: ScenarioFile,
+        *,
+        sample_s: float | None = None,
+        observer: RunObserver | None = None,
+        chunk_wall_s: float = 2.0,
+        method: str = "RK45",
+    ) -> None:
         self.plant = plant
         self.sc = scenario
         self.model = VesselModel(plant)
@@ -255,8 +292,12 @@ class MissionRunner:
             return t - c.threshold
         lay = self.model.lay
         if n == "magnet_temperature_above":
-            return max(float(v) - lim for v, lim in
-                       zip(y[lay.i_mag:lay.i_mag + lay.n_thr], self._mag_limits(c), strict=True))
+            return max(
+                float(v) - lim
+                for v, lim in zip(
+                    y[lay.i_mag : lay.i_mag + lay.n_thr], self._mag_limits(c), strict=True
+                )
+            )
         s = self.model.evaluate(t, y)
         if n == "cell_voltage_below":
             return s.cell_voltage_v - c.threshold
@@ -287,23 +328,60 @@ class MissionRunner:
         lim = self.sc.limits
         cell = self.plant.pack.cell
         out = [
-            _Cond("stop", "soc_below", lim.state_of_charge_min, -1,
-                  "pack empty (state of charge at its minimum)", -1),
+            _Cond(
+                "stop",
+                "soc_below",
+                lim.state_of_charge_min,
+                -1,
+                "pack empty (state of charge at its minimum)",
+                -1,
+            ),
             _Cond("stop", "cell_voltage_below", cell.v_min, -1, "cell under-voltage", -1),
-            _Cond("stop", "pack_headroom", 0.0, -1,
-                  "the pack cannot deliver the demanded power", -1),
-            _Cond("stop", "battery_temperature_above", lim.battery_temperature_max, -1,
-                  "battery temperature limit", 1),
+            _Cond(
+                "stop", "pack_headroom", 0.0, -1, "the pack cannot deliver the demanded power", -1
+            ),
+            _Cond(
+                "stop",
+                "battery_temperature_above",
+                lim.battery_temperature_max,
+                -1,
+                "battery temperature limit",
+                1,
+            ),
         ]
         if lim.magnet_temperature_max is not None:
-            out.append(_Cond("stop", "magnet_temperature_above", lim.magnet_temperature_max, -1,
-                             "magnet temperature limit", 1))
+            out.append(
+                _Cond(
+                    "stop",
+                    "magnet_temperature_above",
+                    lim.magnet_temperature_max,
+                    -1,
+                    "magnet temperature limit",
+                    1,
+                )
+            )
         elif any(math.isfinite(u.magnet_max_c) for u in self.plant.thrusters):
-            out.append(_Cond("stop", "magnet_temperature_above", math.inf, -1,
-                             "magnet temperature limit (grade maximum)", 1))
+            out.append(
+                _Cond(
+                    "stop",
+                    "magnet_temperature_above",
+                    math.inf,
+                    -1,
+                    "magnet temperature limit (grade maximum)",
+                    1,
+                )
+            )
         if lim.duct_temperature_rise_max is not None:
-            out.append(_Cond("stop", "duct_temperature_rise_above", lim.duct_temperature_rise_max,
-                             -1, "duct temperature-rise limit", 1))
+            out.append(
+                _Cond(
+                    "stop",
+                    "duct_temperature_rise_above",
+                    lim.duct_temperature_rise_max,
+                    -1,
+                    "duct temperature-rise limit",
+                    1,
+                )
+            )
         return out
 
     def _active_conditions(self) -> list[_Cond]:
@@ -323,14 +401,18 @@ class MissionRunner:
         m.leg_energy0 = float(y[self.model.lay.acc["energy_pack_terminal_j"]])
         m.leg_samples = []
         leg = self.legs[index]
-        c = Control(mode=leg.mode, setpoint=leg.setpoint, derate=m.derate,
-                    hotel_w=leg.hotel if leg.hotel is not None else m.base_hotel_w)
+        c = Control(
+            mode=leg.mode,
+            setpoint=leg.setpoint,
+            derate=m.derate,
+            hotel_w=leg.hotel if leg.hotel is not None else m.base_hotel_w,
+        )
         y = y.copy()
         if c.mode == "speed":
             self._tune_speed_hold(c, leg, y)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
-        self.model._cache_key = None
+        self.model.invalidate()
         self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}")
         return y
 
@@ -354,8 +436,9 @@ class MissionRunner:
         hi = probe.evaluate(0.0, yy)
         yy[I_V] = max(target - dv, 0.0)
         lo = probe.evaluate(0.0, yy)
-        damping = ((hi.resistance_n - hi.total_thrust_n) - (lo.resistance_n - lo.total_thrust_n)) \
-            / (target + dv - max(target - dv, 0.0))
+        damping = (
+            (hi.resistance_n - hi.total_thrust_n) - (lo.resistance_n - lo.total_thrust_n)
+        ) / (target + dv - max(target - dv, 0.0))
         yy[I_V] = target
         probe.control = Control(mode="voltage", setpoint=ff * 1.01 + 1e-3, hotel_w=c.hotel_w)
         up = probe.evaluate(0.0, yy)
@@ -383,9 +466,16 @@ class MissionRunner:
         dur = t - m.leg_t0
         dist = float(y[I_XG]) - m.leg_x0
         energy = float(y[self.model.lay.acc["energy_pack_terminal_j"]]) - m.leg_energy0
-        rec = {"index": m.leg_index, "name": leg.name, "t_start_s": m.leg_t0, "t_end_s": t,
-               "distance_m": dist, "energy_j": energy,
-               "mean_speed_m_s": dist / dur if dur > 0 else 0.0, "ending": ending}
+        rec = {
+            "index": m.leg_index,
+            "name": leg.name,
+            "t_start_s": m.leg_t0,
+            "t_end_s": t,
+            "distance_m": dist,
+            "energy_j": energy,
+            "mean_speed_m_s": dist / dur if dur > 0 else 0.0,
+            "ending": ending,
+        }
         self._legs_out.append(rec)
         self.obs.leg(rec)
 
@@ -396,17 +486,27 @@ class MissionRunner:
 
     # ------------------------------------------------------------------ integration
     def _record(self, t: float, y: np.ndarray) -> None:
+        if self._rows and self._rows[-1]["time_s"] == t:
+            return  # one row per instant: the first (before an event acts) is kept
         row = sample_row(self.model, t, y, self.m.leg_index)
         for k, v in row.items():
             if isinstance(v, float) and not math.isfinite(v):
-                raise SolverFailure(f"non-finite value of {k}", t,
-                                    self.legs[self.m.leg_index].name, self._state_dict(y))
+                raise SolverFailure(
+                    f"non-finite value of {k}",
+                    t,
+                    self.legs[self.m.leg_index].name,
+                    self._state_dict(y),
+                )
         self._rows.append(row)
         self._pending_rows.append(row)
 
     def _state_dict(self, y: np.ndarray) -> dict:
-        return {"speed_m_s": float(y[I_V]), "distance_m": float(y[I_XG]),
-                "soc": float(y[I_SOC]), "battery_c": float(y[I_TB])}
+        return {
+            "speed_m_s": float(y[I_V]),
+            "distance_m": float(y[I_XG]),
+            "soc": float(y[I_SOC]),
+            "battery_c": float(y[I_TB]),
+        }
 
     def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Cond]):
         """Integrate from t0 towards t1; stop at the first condition that fires."""
@@ -422,17 +522,33 @@ class MissionRunner:
 
         events = [make(c) for c in conds]
         try:
-            sol = solve_ivp(model.rhs, (t0, t1), y0, method=self.method, events=events,
-                            dense_output=True, rtol=self.rtol, atol=self.atol,
-                            max_step=self.max_step)
+            sol = solve_ivp(
+                model.rhs,
+                (t0, t1),
+                y0,
+                method=self.method,
+                events=events,
+                dense_output=True,
+                rtol=self.rtol,
+                atol=self.atol,
+                max_step=self.max_step,
+            )
         except SolverFailure:
             raise
         except Exception as exc:  # the model raised inside the integrator
-            raise SolverFailure(f"model failure ({type(exc).__name__}: {exc})", t0,
-                                self.legs[self.m.leg_index].name, self._state_dict(y0)) from exc
+            raise SolverFailure(
+                f"model failure ({type(exc).__name__}: {exc})",
+                t0,
+                self.legs[self.m.leg_index].name,
+                self._state_dict(y0),
+            ) from exc
         if sol.status == -1:
-            raise SolverFailure(f"integrator failure ({sol.message})", float(sol.t[-1]),
-                                self.legs[self.m.leg_index].name, self._state_dict(sol.y[:, -1]))
+            raise SolverFailure(
+                f"integrator failure ({sol.message})",
+                float(sol.t[-1]),
+                self.legs[self.m.leg_index].name,
+                self._state_dict(sol.y[:, -1]),
+            )
         fired = None
         t_end, y_end = float(sol.t[-1]), sol.y[:, -1].copy()
         if sol.status == 1:
@@ -468,8 +584,9 @@ class MissionRunner:
                 if nxt <= env.now:  # a scheduled event is due now: let it act first
                     yield env.timeout(0)
                     continue
-                leg_end = (m.leg_t0 + leg.until.duration if leg.until.duration is not None
-                           else math.inf)
+                leg_end = (
+                    m.leg_t0 + leg.until.duration if leg.until.duration is not None else math.inf
+                )
                 horizon = min(self.time_limit, leg_end, nxt, t + chunk)
                 t, y, fired, _ = self._segment(t, horizon, y, conds)
                 yield env.timeout(max(0.0, t - env.now))
@@ -505,9 +622,12 @@ class MissionRunner:
             return self._next_leg(t, y, f"{c.name.replace('_', ' ')} {c.threshold:g}")
         trig = self.triggers[c.owner]
         m.fired.add(c.owner)
-        self._emit(t, "trigger", m.leg_index,
-                   f"trigger {trig.name!r} ({c.name.replace('_', ' ')} {c.threshold:g}): "
-                   f"{trig.then}")
+        self._emit(
+            t,
+            "trigger",
+            m.leg_index,
+            f"trigger {trig.name!r} ({c.name.replace('_', ' ')} {c.threshold:g}): {trig.then}",
+        )
         if trig.then == "stop":
             self._finish(t, y, f"stopped by trigger {trig.name!r}", "limit")
             return y
@@ -522,7 +642,7 @@ class MissionRunner:
             m.base_hotel_w = trig.hotel
             if self.legs[m.leg_index].hotel is None:
                 self.model.control.hotel_w = trig.hotel
-        self.model._cache_key = None
+        self.model.invalidate()
         return y
 
     def _next_leg(self, t: float, y: np.ndarray, why: str) -> np.ndarray:
@@ -542,8 +662,11 @@ class MissionRunner:
 
     def _finish(self, t: float, y: np.ndarray, reason: str, kind: str) -> None:
         m = self.m
-        if not self._legs_out or self._legs_out[-1]["index"] != m.leg_index or \
-                self._legs_out[-1]["t_end_s"] != t:
+        if (
+            not self._legs_out
+            or self._legs_out[-1]["index"] != m.leg_index
+            or self._legs_out[-1]["t_end_s"] != t
+        ):
             if kind != "complete":
                 self._end_leg(t, y, reason)
         m.ending, m.ending_kind = reason, kind
@@ -557,7 +680,7 @@ class MissionRunner:
         m.base_hotel_w = hotel_w
         if self.legs[m.leg_index].hotel is None:
             self.model.control.hotel_w = hotel_w
-            self.model._cache_key = None
+            self.model.invalidate()
         self._emit(env.now, "schedule", m.leg_index, f"hotel load set to {hotel_w:g} W")
 
     # ------------------------------------------------------------------ entry point
@@ -568,9 +691,13 @@ class MissionRunner:
         self._stops = self._stop_conditions()
         st = sc.start
         t_w = p.water.t_c
-        y0 = initial_state(p, st.state_of_charge, st.speed,
-                           st.battery_temperature if st.battery_temperature is not None else t_w,
-                           st.magnet_temperature if st.magnet_temperature is not None else t_w)
+        y0 = initial_state(
+            p,
+            st.state_of_charge,
+            st.speed,
+            st.battery_temperature if st.battery_temperature is not None else t_w,
+            st.magnet_temperature if st.magnet_temperature is not None else t_w,
+        )
         env = simpy.Environment()
         for s in sorted(sc.schedule, key=lambda s: s.at):
             if s.at < self.time_limit:
@@ -580,13 +707,7 @@ class MissionRunner:
         return self._result(_time.perf_counter() - wall0)
 
     def _result(self, wall: float) -> RunResult:
-        rows = self._rows
-        # drop exact duplicate instants (an event on a grid time), keeping the later row
-        keep = []
-        for i, r in enumerate(rows):
-            if i + 1 < len(rows) and rows[i + 1]["time_s"] == r["time_s"]:
-                continue
-            keep.append(r)
+        keep = self._rows
         series = {k: np.array([r[k] for r in keep]) for k in keep[0]}
         y = self._final_y
         lay = self.model.lay
@@ -597,10 +718,16 @@ class MissionRunner:
         eff = series["efficiency_overall"]
         driving = series["thruster_power_w"] > 0
         useful = totals["energy_useful_j"]
-        thr_energy = (totals["energy_joule_j"] + totals["energy_electrode_j"]
-                      + totals["energy_friction_j"] + totals["energy_wake_j"] + useful)
+        thr_energy = (
+            totals["energy_joule_j"]
+            + totals["energy_electrode_j"]
+            + totals["energy_friction_j"]
+            + totals["energy_wake_j"]
+            + useful
+        )
         summary = {
-            "distance_m": dist, "duration_s": dur,
+            "distance_m": dist,
+            "duration_s": dur,
             "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
             "energy_out_j": totals["energy_pack_terminal_j"],
             "energy_per_distance_j_m": totals["energy_pack_terminal_j"] / dist if dist > 0 else 0.0,
@@ -610,26 +737,46 @@ class MissionRunner:
             "peak_duct_temperature_rise_k": float(np.max(series["duct_temperature_rise_k"])),
             "peak_battery_temperature_c": float(np.max(series["battery_temperature_c"])),
             "peak_magnet_temperature_c": float(np.max(series["magnet_temperature_c"])),
-            "h2_total_mol": totals["h2_mol"], "cl2_total_mol": totals["cl2_mol"],
+            "h2_total_mol": totals["h2_mol"],
+            "cl2_total_mol": totals["cl2_mol"],
             "o2_total_mol": totals["o2_mol"],
             "peak_pack_current_a": float(np.max(np.abs(series["pack_current_a"]))),
-            "peak_thruster_current_a": float(np.max(np.abs(
-                np.sum(series["thruster_current_a"], axis=1)))),
+            "peak_thruster_current_a": float(
+                np.max(np.abs(np.sum(series["thruster_current_a"], axis=1)))
+            ),
             "ending_reason": m.ending,
         }
-        return RunResult(series=series, events=list(self._events), legs=list(self._legs_out),
-                         summary=summary, ending_reason=m.ending, ending_kind=m.ending_kind,
-                         final_state=y, totals=totals, wall_time_s=wall,
-                         rhs_calls=self.model.n_rhs)
+        return RunResult(
+            series=series,
+            events=list(self._events),
+            legs=list(self._legs_out),
+            summary=summary,
+            ending_reason=m.ending,
+            ending_kind=m.ending_kind,
+            final_state=y,
+            totals=totals,
+            wall_time_s=wall,
+            rhs_calls=self.model.n_rhs,
+        )
 
 
 SUMMARY_UNITS = {
-    "distance_m": "m", "duration_s": "s", "mean_speed_over_ground_m_s": "m/s",
-    "energy_out_j": "J", "energy_per_distance_j_m": "J/m", "mean_overall_efficiency": "1",
-    "best_overall_efficiency": "1", "end_state_of_charge": "1",
-    "peak_duct_temperature_rise_k": "K", "peak_battery_temperature_c": "degC",
-    "peak_magnet_temperature_c": "degC", "h2_total_mol": "mol", "cl2_total_mol": "mol",
-    "o2_total_mol": "mol", "peak_pack_current_a": "A", "peak_thruster_current_a": "A",
+    "distance_m": "m",
+    "duration_s": "s",
+    "mean_speed_over_ground_m_s": "m/s",
+    "energy_out_j": "J",
+    "energy_per_distance_j_m": "J/m",
+    "mean_overall_efficiency": "1",
+    "best_overall_efficiency": "1",
+    "end_state_of_charge": "1",
+    "peak_duct_temperature_rise_k": "K",
+    "peak_battery_temperature_c": "degC",
+    "peak_magnet_temperature_c": "degC",
+    "h2_total_mol": "mol",
+    "cl2_total_mol": "mol",
+    "o2_total_mol": "mol",
+    "peak_pack_current_a": "A",
+    "peak_thruster_current_a": "A",
     "ending_reason": "",
 }
 

@@ -82,14 +82,15 @@ class Layout:
         self.size = self.i_acc + len(ACC_NAMES)
 
 
-def initial_state(plant: Plant, soc: float, speed_m_s: float, battery_c: float,
-                  magnet_c: float) -> np.ndarray:
+def initial_state(
+    plant: Plant, soc: float, speed_m_s: float, battery_c: float, magnet_c: float
+) -> np.ndarray:
     lay = Layout(plant)
     y = np.zeros(lay.size)
     y[I_V] = speed_m_s
     y[I_SOC] = soc
     y[I_TB] = battery_c
-    y[lay.i_mag:lay.i_mag + lay.n_thr] = magnet_c
+    y[lay.i_mag : lay.i_mag + lay.n_thr] = magnet_c
     return y
 
 
@@ -139,11 +140,26 @@ class VesselModel:
     def __init__(self, plant: Plant) -> None:
         self.plant = plant
         self.lay = Layout(plant)
-        self.control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
         self._cache_key: tuple | None = None
         self._cache: Snapshot | None = None
+        self._control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
         self._ducts = {}  # (index, rounded field) -> DuctThruster
         self.n_rhs = 0
+
+    @property
+    def control(self) -> Control:
+        """The active command. Assigning a new one clears the cached algebraic solution; after
+        changing a field of it in place, call :meth:`invalidate`."""
+        return self._control
+
+    @control.setter
+    def control(self, value: Control) -> None:
+        self._control = value
+        self._cache_key = None
+
+    def invalidate(self) -> None:
+        """Forget the cached algebraic solution (the command changed in place)."""
+        self._cache_key = None
 
     # ------------------------------------------------------------------ thrusters
     def field_t(self, k: int, magnet_c: float) -> float:
@@ -180,8 +196,10 @@ class VesselModel:
 
     def _thruster_power(self, speed: float, volts: float, fields: list[float]) -> float:
         ops, _ = self._all_units(speed, volts, fields)
-        return sum(float(op.electrical_power_w) * u.units
-                   for op, u in zip(ops, self.plant.thrusters, strict=True))
+        return sum(
+            float(op.electrical_power_w) * u.units
+            for op, u in zip(ops, self.plant.thrusters, strict=True)
+        )
 
     # ------------------------------------------------------------------ algebra
     def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
@@ -212,8 +230,14 @@ class VesselModel:
             elif self._thruster_power(speed, vmax, fields) <= target:
                 value, saturated = vmax, True
             else:
-                value = brentq(lambda v: self._thruster_power(speed, v, fields) - target,
-                               0.0, vmax, xtol=1e-9, rtol=1e-12, maxiter=200)
+                value = brentq(
+                    lambda v: self._thruster_power(speed, v, fields) - target,
+                    0.0,
+                    vmax,
+                    xtol=1e-9,
+                    rtol=1e-12,
+                    maxiter=200,
+                )
             mode = "voltage"
         else:
             value = c.target
@@ -234,8 +258,9 @@ class VesselModel:
                 duct = self._duct(k, fields[k])
                 op = operating_point(duct, p.water, speed, current_a=per_unit)
                 if abs(float(op.voltage_v)) > vmax:
-                    op = operating_point(duct, p.water, speed,
-                                         voltage_v=math.copysign(vmax, per_unit))
+                    op = operating_point(
+                        duct, p.water, speed, voltage_v=math.copysign(vmax, per_unit)
+                    )
                     saturated = True
                 ops.append(op)
 
@@ -274,10 +299,11 @@ class VesselModel:
         s.pack_voltage_v = float(op.terminal_v)
         s.cell_voltage_v = float(op.cell_v)
         s.ocv_v = float(bat.ocv_v(pk, soc))
-        s.pack_heat_w = float(bat.heat_generation_w(pk, s.pack_current_a, soc, temp,
-                                                    (float(y[I_RC1]), float(y[I_RC2]))))
-        d1, d2 = bat.drc_dt(pk, soc, temp, s.pack_current_a, (float(y[I_RC1]), float(y[I_RC2])))
-        s.drc1, s.drc2 = float(d1), float(d2)
+        rc = (float(y[I_RC1]), float(y[I_RC2]))[: pk.n_rc]
+        s.pack_heat_w = float(bat.heat_generation_w(pk, s.pack_current_a, soc, temp, rc))
+        d = bat.drc_dt(pk, soc, temp, s.pack_current_a, rc)
+        s.drc1 = float(d[0])
+        s.drc2 = float(d[1]) if pk.n_rc > 1 else 0.0
         w = p.water
         s.resistance_n = float(p.resistance.resistance_n(speed, w.rho_kg_m3, w.nu_m2_s))
         return s
@@ -295,16 +321,21 @@ class VesselModel:
         dy[I_SOC] = bat.dsoc_dt(p.pack, s.pack_current_a)
         dy[I_RC1] = s.drc1
         dy[I_RC2] = s.drc2
-        dy[I_TB] = bat.battery_temperature_rate_k_s(p.pack, s.pack_heat_w, float(y[I_TB]),
-                                                    p.water.t_c, p.battery_ua_w_k)
+        dy[I_TB] = bat.battery_temperature_rate_k_s(
+            p.pack, s.pack_heat_w, float(y[I_TB]), p.water.t_c, p.battery_ua_w_k
+        )
         for k, u in enumerate(p.thrusters):
             duct_mean_c = p.water.t_c + 0.5 * s.duct_rise_k[k]
-            dy[lay.i_mag + k] = (u.magnet_conductance_w_k * (duct_mean_c - float(y[lay.i_mag + k]))
-                                 / u.magnet_heat_capacity_j_k)
+            dy[lay.i_mag + k] = (
+                u.magnet_conductance_w_k
+                * (duct_mean_c - float(y[lay.i_mag + k]))
+                / u.magnet_heat_capacity_j_k
+            )
         if c.mode == "speed":
             err = c.target - speed
-            winding = s.saturated and ((err > 0 and s.command_v > 0) or
-                                       (err < 0 and s.command_v < 0))
+            winding = s.saturated and (
+                (err > 0 and s.command_v > 0) or (err < 0 and s.command_v < 0)
+            )
             dy[lay.i_pi] = 0.0 if winding else c.ki_v_per_m * err
         a = lay.acc
         dy[a["energy_pack_terminal_j"]] = s.pack_voltage_v * s.pack_current_a

@@ -87,23 +87,37 @@ def water_from_spec(spec: WaterSpec) -> WaterState:
 
 def _hull_model(spec, vessel_mass_kg: float, rho: float):
     if isinstance(spec, SubmergedHull):
-        return hull.SubmergedBody(length_m=spec.length, diameter_m=spec.diameter,
-                                  wetted_area_m2=spec.wetted_area,
-                                  roughness_allowance=spec.roughness_allowance)
+        return hull.SubmergedBody(
+            length_m=spec.length,
+            diameter_m=spec.diameter,
+            given_wetted_area_m2=spec.wetted_area,
+            roughness_allowance=spec.roughness_allowance,
+        )
     if isinstance(spec, DisplacementHull):
         return hull.DisplacementHull(
-            lwl_m=spec.waterline_length, beam_m=spec.beam, draft_m=spec.draft,
-            displacement_m3=spec.displaced_volume, cb=spec.block_coefficient,
-            cp=spec.prismatic_coefficient, cm=spec.midship_coefficient,
-            cwp=spec.waterplane_coefficient, lcb_pct=spec.lcb_percent,
-            transom_area_m2=spec.transom_area, bulb_area_m2=spec.bulb_area,
-            bulb_centre_m=spec.bulb_centre_height, c_stern=spec.stern_shape,
-            wetted_area_m2=spec.wetted_area, form_factor=spec.form_factor,
-            ca=spec.roughness_allowance)
+            length_wl_m=spec.waterline_length,
+            beam_m=spec.beam,
+            draft_m=spec.draft,
+            displaced_volume_m3=spec.displaced_volume,
+            block_coefficient=spec.block_coefficient,
+            prismatic_coefficient=spec.prismatic_coefficient,
+            midship_coefficient=spec.midship_coefficient,
+            waterplane_coefficient=spec.waterplane_coefficient,
+            lcb_percent=spec.lcb_percent,
+            transom_area_m2=spec.transom_area,
+            bulb_area_m2=spec.bulb_area,
+            bulb_centre_height_m=spec.bulb_centre_height,
+            stern_coefficient=spec.stern_shape,
+            given_wetted_area_m2=spec.wetted_area,
+            given_form_factor=spec.form_factor,
+            given_correlation_allowance=spec.roughness_allowance,
+        )
     if isinstance(spec, TableHull):
-        return hull.TabulatedResistance(speeds_m_s=tuple(spec.speeds),
-                                        resistances_n=tuple(spec.resistances),
-                                        wetted_area=spec.wetted_area)
+        return hull.TabulatedResistance(
+            speeds_m_s=tuple(spec.speeds),
+            resistances_n=tuple(spec.resistances),
+            wetted_area_m2=spec.wetted_area,
+        )
     raise TypeError(f"unknown hull spec {type(spec).__name__}")
 
 
@@ -120,16 +134,27 @@ def _added_mass(vf: VesselFile, rho: float) -> float:
 
 
 def _thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
-    pair = electrochem.ElectrodePair(anode=spec.anode, cathode=spec.cathode,
-                                     overpotential_v=spec.overpotential,
-                                     chlorine_fraction=spec.chlorine_fraction)
+    pair = electrochem.ElectrodePair(
+        anode=spec.anode,
+        cathode=spec.cathode,
+        overpotential_v=spec.overpotential,
+        chlorine_fraction=spec.chlorine_fraction,
+    )
     drop = electrochem.electrode_drop_v(pair)
     duct = DuctThruster(
-        gap_m=spec.gap, height_m=spec.pole_height, length_m=spec.active_length,
-        n_channels=spec.channels, b_tesla=spec.field, roughness_m=spec.wall_roughness,
-        k_inlet=spec.inlet_loss, k_nozzle=spec.nozzle_loss,
-        nozzle_area_ratio=spec.nozzle_area_ratio, jet_model=spec.jet,
-        electrode_drop_v=drop, chlorine_fraction=spec.chlorine_fraction)
+        gap_m=spec.gap,
+        height_m=spec.pole_height,
+        length_m=spec.active_length,
+        n_channels=spec.channels,
+        b_tesla=spec.field,
+        roughness_m=spec.wall_roughness,
+        k_inlet=spec.inlet_loss,
+        k_nozzle=spec.nozzle_loss,
+        nozzle_area_ratio=spec.nozzle_area_ratio,
+        jet_model=spec.jet,
+        electrode_drop_v=drop,
+        chlorine_fraction=spec.chlorine_fraction,
+    )
     alpha, tmax = 0.0, math.inf
     if spec.magnet == "permanent":
         alpha = magnets.ALPHA_BR_NDFEB_PER_K
@@ -138,10 +163,17 @@ def _thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
             alpha = grade.alpha_br_per_k
             tmax = grade.max_working_temp_c
     return ThrusterUnit(
-        name=spec.name, duct=duct, units=spec.units, magnet_kind=spec.magnet,
-        b_ref_tesla=spec.field, alpha_br_per_k=alpha, t_ref_c=spec.field_reference_temperature,
-        magnet_max_c=tmax, magnet_heat_capacity_j_k=spec.magnet_heat_capacity,
-        magnet_conductance_w_k=spec.magnet_conductance)
+        name=spec.name,
+        duct=duct,
+        units=spec.units,
+        magnet_kind=spec.magnet,
+        b_ref_tesla=spec.field,
+        alpha_br_per_k=alpha,
+        t_ref_c=spec.field_reference_temperature,
+        magnet_max_c=tmax,
+        magnet_heat_capacity_j_k=spec.magnet_heat_capacity,
+        magnet_conductance_w_k=spec.magnet_conductance,
+    )
 
 
 def housing_appendages(vf: VesselFile):
@@ -149,10 +181,14 @@ def housing_appendages(vf: VesselFile):
     out = []
     for t in vf.thruster:
         if t.housing_wetted_area > 0:
-            out.append(hull.Appendage(
-                wetted_area_m2=t.housing_wetted_area * t.units,
-                length_m=t.housing_length or t.active_length,
-                form_factor=t.housing_form_factor))
+            out.append(
+                hull.Appendage(
+                    wetted_area_m2=t.housing_wetted_area * t.units,
+                    reference_length_m=t.housing_length or t.active_length,
+                    form_factor=t.housing_form_factor,
+                    label=f"{t.name} housing",
+                )
+            )
     return tuple(out)
 
 
@@ -164,13 +200,25 @@ def build_plant(vf: VesselFile, water_spec: WaterSpec) -> Plant:
     if apps:
         model = hull.with_appendages(model, apps)
     cell = bat.CELL_SETS[vf.battery.cell]
-    pack = bat.Pack(cell=cell, n_series=vf.battery.series, n_parallel=vf.battery.parallel,
-                    extra_resistance_ohm=vf.battery.extra_resistance)
+    pack = bat.Pack(
+        cell=cell,
+        n_series=vf.battery.series,
+        n_parallel=vf.battery.parallel,
+        extra_series_resistance_ohm=vf.battery.extra_resistance,
+    )
     return Plant(
-        name=vf.vessel.name, water=water, water_current_m_s=water_spec.current,
-        resistance=model, mass_kg=vf.vessel.mass, added_mass_kg=_added_mass(vf, water.rho_kg_m3),
-        thrusters=tuple(_thruster_unit(t) for t in vf.thruster), pack=pack,
+        name=vf.vessel.name,
+        water=water,
+        water_current_m_s=water_spec.current,
+        resistance=model,
+        mass_kg=vf.vessel.mass,
+        added_mass_kg=_added_mass(vf, water.rho_kg_m3),
+        thrusters=tuple(_thruster_unit(t) for t in vf.thruster),
+        pack=pack,
         battery_ua_w_k=vf.battery.conductance_to_water,
-        drive_efficiency=vf.drive.efficiency, drive_max_current_a=vf.drive.max_current,
-        drive_max_voltage_v=vf.drive.max_voltage, hotel_w=vf.hotel.power,
-        cryocooler_w=vf.hotel.cryocooler)
+        drive_efficiency=vf.drive.efficiency,
+        drive_max_current_a=vf.drive.max_current,
+        drive_max_voltage_v=vf.drive.max_voltage,
+        hotel_w=vf.hotel.power,
+        cryocooler_w=vf.hotel.cryocooler,
+    )

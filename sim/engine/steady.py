@@ -57,7 +57,7 @@ class SteadyPoint:
 def _state(model: VesselModel, speed: float, soc: float, magnet_c: list[float]):
     p = model.plant
     y = initial_state(p, soc, speed, p.water.t_c, p.water.t_c)
-    y[model.lay.i_mag:model.lay.i_mag + model.lay.n_thr] = magnet_c
+    y[model.lay.i_mag : model.lay.i_mag + model.lay.n_thr] = magnet_c
     return y
 
 
@@ -86,8 +86,9 @@ def _with_magnet_equilibrium(model: VesselModel, solve, soc: float):
     return result, snap, mags
 
 
-def steady_at_speed(plant: Plant, speed_m_s: float, *, soc: float = 1.0,
-                    hotel_w: float | None = None) -> SteadyPoint:
+def steady_at_speed(
+    plant: Plant, speed_m_s: float, *, soc: float = 1.0, hotel_w: float | None = None
+) -> SteadyPoint:
     """The steady point at a given speed through water: the thruster voltage that makes
     thrust equal resistance. Raises SteadyError when the drive's voltage range cannot."""
     model = VesselModel(plant)
@@ -100,12 +101,19 @@ def steady_at_speed(plant: Plant, speed_m_s: float, *, soc: float = 1.0,
         if _net(model, speed_m_s, vmax, soc, mags) < 0:
             raise SteadyError(
                 f"{speed_m_s:.3f} m/s needs more thrust than the thrusters give at the drive's "
-                f"maximum voltage {vmax:g} V (or its current limit)")
-        v = brentq(lambda v: _net(model, speed_m_s, v, soc, mags), 0.0, vmax,
-                   xtol=1e-10, rtol=1e-13, maxiter=200)
+                f"maximum voltage {vmax:g} V (or its current limit)"
+            )
+        v = brentq(
+            lambda v: _net(model, speed_m_s, v, soc, mags),
+            0.0,
+            vmax,
+            xtol=1e-10,
+            rtol=1e-13,
+            maxiter=200,
+        )
         return v, _eval(model, speed_m_s, v, soc, mags)
 
-    (volts), snap, mags = _with_magnet_equilibrium(model, solve, soc)
+    (volts), snap, _mags = _with_magnet_equilibrium(model, solve, soc)
     return _point(model, speed_m_s, volts, snap)
 
 
@@ -142,14 +150,28 @@ def _safe(a: float, b: float) -> float:
 def _point(model: VesselModel, speed: float, volts: float, s: Snapshot) -> SteadyPoint:
     useful = s.total_thrust_n * speed
     return SteadyPoint(
-        speed_m_s=speed, thruster_voltage_v=float(np.mean(s.voltage_v)) if s.voltage_v else volts,
-        thrust_n=s.total_thrust_n, resistance_n=s.resistance_n,
-        thruster_current_a=sum(s.current_a), thruster_power_w=s.thr_power_w,
-        pack_power_w=s.pack_power_w, pack_current_a=s.pack_current_a, useful_power_w=useful,
-        flow_work_w=s.flow_work_w, joule_loss_w=s.joule_w, electrode_loss_w=s.electrode_w,
-        friction_loss_w=s.friction_w, wake_loss_w=s.wake_w, drive_loss_w=s.drive_loss_w,
-        hotel_w=s.hotel_w, electrical_efficiency=_safe(s.flow_work_w, s.thr_power_w),
+        speed_m_s=speed,
+        thruster_voltage_v=float(np.mean(s.voltage_v)) if s.voltage_v else volts,
+        thrust_n=s.total_thrust_n,
+        resistance_n=s.resistance_n,
+        thruster_current_a=sum(s.current_a),
+        thruster_power_w=s.thr_power_w,
+        pack_power_w=s.pack_power_w,
+        pack_current_a=s.pack_current_a,
+        useful_power_w=useful,
+        flow_work_w=s.flow_work_w,
+        joule_loss_w=s.joule_w,
+        electrode_loss_w=s.electrode_w,
+        friction_loss_w=s.friction_w,
+        wake_loss_w=s.wake_w,
+        drive_loss_w=s.drive_loss_w,
+        hotel_w=s.hotel_w,
+        electrical_efficiency=_safe(s.flow_work_w, s.thr_power_w),
         propulsive_efficiency=_safe(useful, s.flow_work_w),
         overall_efficiency=_safe(useful, s.thr_power_w),
-        duct_rise_k=max(s.duct_rise_k) if s.duct_rise_k else 0.0, h2_mol_s=s.h2,
-        cl2_mol_s=s.cl2, field_t=tuple(s.field_t), feasible=s.feasible)
+        duct_rise_k=max(s.duct_rise_k) if s.duct_rise_k else 0.0,
+        h2_mol_s=s.h2,
+        cl2_mol_s=s.cl2,
+        field_t=tuple(s.field_t),
+        feasible=s.feasible,
+    )

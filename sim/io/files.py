@@ -16,7 +16,14 @@ from pydantic import BaseModel, ValidationError
 
 from sim.io.schema import ScenarioFile, VesselFile
 
-__all__ = ["InputError", "LoadedScenario", "LoadedVessel", "Problem", "load_scenario", "load_vessel"]
+__all__ = [
+    "InputError",
+    "LoadedScenario",
+    "LoadedVessel",
+    "Problem",
+    "load_scenario",
+    "load_vessel",
+]
 
 MAX_BASE_DEPTH = 8
 
@@ -86,13 +93,23 @@ def _read_toml(path: Path) -> tuple[dict, str]:
     except FileNotFoundError:
         raise InputError([Problem(str(path), "", _MISSING, "file not found")]) from None
     except (OSError, UnicodeDecodeError) as exc:
-        raise InputError([Problem(str(path), "", _MISSING, f"cannot read the file: {exc}")]) from None
+        raise InputError(
+            [Problem(str(path), "", _MISSING, f"cannot read the file: {exc}")]
+        ) from None
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise InputError([Problem(str(path), "", _MISSING,
-                                  f"not valid TOML: {exc}; allowed: TOML syntax "
-                                  "(key = value, [table], [[array-of-tables]])")]) from None
+        raise InputError(
+            [
+                Problem(
+                    str(path),
+                    "",
+                    _MISSING,
+                    f"not valid TOML: {exc}; allowed: TOML syntax "
+                    "(key = value, [table], [[array-of-tables]])",
+                )
+            ]
+        ) from None
     return data, text
 
 
@@ -175,8 +192,11 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
             names = _fields_at(model, loc, data)
             close = difflib.get_close_matches(str(loc[-1]), names, n=1, cutoff=0.6)
             hint = f"; did you mean '{close[0]}'?" if close else ""
-            msg = f"unknown key{hint} allowed keys here: {', '.join(names)}" if names else \
-                "unknown key"
+            msg = (
+                f"unknown key{hint} allowed keys here: {', '.join(names)}"
+                if names
+                else "unknown key"
+            )
             if hint:
                 msg = f"unknown key{hint} (allowed keys here: {', '.join(names)})"
             problems.append(Problem(file, key, value, msg))
@@ -184,24 +204,43 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
             problems.append(Problem(file, key, _MISSING, "required key is missing"))
         elif kind == "union_tag_invalid":
             ctx = err.get("ctx", {})
-            problems.append(Problem(file, key + ".model", ctx.get("tag"),
-                                    f"unknown model; allowed: {ctx.get('expected_tags')}"))
+            problems.append(
+                Problem(
+                    file,
+                    key + ".model",
+                    ctx.get("tag"),
+                    f"unknown model; allowed: {ctx.get('expected_tags')}",
+                )
+            )
         elif kind == "union_tag_not_found":
-            problems.append(Problem(file, key + ".model", _MISSING,
-                                    "required key is missing; it selects the model"))
+            problems.append(
+                Problem(
+                    file, key + ".model", _MISSING, "required key is missing; it selects the model"
+                )
+            )
         elif kind == "literal_error":
             ctx = err.get("ctx", {})
-            problems.append(Problem(file, key, value, f"not an accepted choice; allowed: "
-                                    f"{ctx.get('expected', '')}"))
+            problems.append(
+                Problem(
+                    file, key, value, f"not an accepted choice; allowed: {ctx.get('expected', '')}"
+                )
+            )
         elif kind in ("list_type", "dict_type", "model_type", "model_attributes_type"):
             want = "a list" if kind == "list_type" else "a table"
             problems.append(Problem(file, key, value, f"wrong type; allowed: {want}"))
         elif kind in ("string_type",):
             problems.append(Problem(file, key, value, "wrong type; allowed: text in quotes"))
         elif kind == "too_short":
-            problems.append(Problem(file, key, value, "is empty or too short; allowed: "
-                                    f"at least {err.get('ctx', {}).get('min_length', 1)} "
-                                    "entries"))
+            problems.append(
+                Problem(
+                    file,
+                    key,
+                    value,
+                    "is empty or too short; allowed: "
+                    f"at least {err.get('ctx', {}).get('min_length', 1)} "
+                    "entries",
+                )
+            )
         elif kind == "string_too_short":
             problems.append(Problem(file, key, value, "is empty; allowed: non-empty text"))
         else:
@@ -224,23 +263,45 @@ def _load_vessel_data(path: Path, chain: tuple[Path, ...] = ()) -> tuple[dict, s
     resolved = path.resolve()
     if resolved in chain:
         cycle = " -> ".join(str(p) for p in (*chain, resolved))
-        raise InputError([Problem(str(path), "extends", str(path),
-                                  f"circular vessel reference ({cycle}); allowed: a chain of "
-                                  "files that ends in a file without 'extends'")])
+        raise InputError(
+            [
+                Problem(
+                    str(path),
+                    "extends",
+                    str(path),
+                    f"circular vessel reference ({cycle}); allowed: a chain of "
+                    "files that ends in a file without 'extends'",
+                )
+            ]
+        )
     if len(chain) >= MAX_BASE_DEPTH:
-        raise InputError([Problem(str(path), "extends", str(path),
-                                  f"more than {MAX_BASE_DEPTH} nested 'extends'")])
+        raise InputError(
+            [
+                Problem(
+                    str(path), "extends", str(path), f"more than {MAX_BASE_DEPTH} nested 'extends'"
+                )
+            ]
+        )
     data, text = _read_toml(path)
     base_name = data.pop("extends", None)
     if base_name is None:
         return data, text
     if not isinstance(base_name, str):
-        raise InputError([Problem(str(path), "extends", base_name,
-                                  "wrong type; allowed: the path of a vessel file in quotes")])
-    base_path = (path.parent / base_name)
+        raise InputError(
+            [
+                Problem(
+                    str(path),
+                    "extends",
+                    base_name,
+                    "wrong type; allowed: the path of a vessel file in quotes",
+                )
+            ]
+        )
+    base_path = path.parent / base_name
     if not base_path.exists():
-        raise InputError([Problem(str(path), "extends", base_name,
-                                  f"file not found (looked for {base_path})")])
+        raise InputError(
+            [Problem(str(path), "extends", base_name, f"file not found (looked for {base_path})")]
+        )
     base_data, base_text = _load_vessel_data(base_path, (*chain, resolved))
     merged = _merge(base_data, data)
     return merged, base_text + f"\n# ---- {path.name} (extends {base_name}) ----\n" + text
@@ -278,8 +339,9 @@ def _cross_check_vessel(spec: VesselFile, data: dict, file: str) -> list[Problem
     return vessel_problems(spec, data, file)
 
 
-def load_scenario(path: str | Path, vessel_overrides: dict | None = None,
-                  vessel_path: str | Path | None = None) -> LoadedScenario:
+def load_scenario(
+    path: str | Path, vessel_overrides: dict | None = None, vessel_path: str | Path | None = None
+) -> LoadedScenario:
     """Read and validate a scenario file and the vessel file it names.
 
     ``vessel_path`` replaces the vessel the scenario names (for comparing variants);
@@ -296,13 +358,19 @@ def load_scenario(path: str | Path, vessel_overrides: dict | None = None,
     vessel = None
     vfile = vessel_path
     if vfile is None:
-        name = (data.get("scenario") or {}).get("vessel") if isinstance(data.get("scenario"),
-                                                                       dict) else None
+        name = (
+            (data.get("scenario") or {}).get("vessel")
+            if isinstance(data.get("scenario"), dict)
+            else None
+        )
         if isinstance(name, str) and name:
             vfile = path.parent / name
             if not Path(vfile).exists():
-                problems.append(Problem(str(path), "scenario.vessel", name,
-                                        f"file not found (looked for {vfile})"))
+                problems.append(
+                    Problem(
+                        str(path), "scenario.vessel", name, f"file not found (looked for {vfile})"
+                    )
+                )
                 vfile = None
     if vfile is not None:
         try:
@@ -319,8 +387,13 @@ def load_scenario(path: str | Path, vessel_overrides: dict | None = None,
     assert spec is not None and vessel is not None
     from sim.io.checks import scenario_warnings
 
-    return LoadedScenario(path=path, text=text, spec=spec, vessel=vessel,
-                          warnings=scenario_warnings(spec, vessel.spec, str(path)))
+    return LoadedScenario(
+        path=path,
+        text=text,
+        spec=spec,
+        vessel=vessel,
+        warnings=scenario_warnings(spec, vessel.spec, str(path)),
+    )
 
 
 def check_file(path: str | Path) -> tuple[str, list[Problem]]:
@@ -334,6 +407,14 @@ def check_file(path: str | Path) -> tuple[str, list[Problem]]:
         return "scenario", load_scenario(path).warnings + load_scenario(path).vessel.warnings
     if "vessel" in data or "hull" in data or "extends" in data:
         return "vessel", load_vessel(path).warnings
-    raise InputError([Problem(str(path), "", _MISSING,
-                              "neither a vessel file (with [vessel]) nor a scenario file (with "
-                              "[scenario]); allowed: one of the two")])
+    raise InputError(
+        [
+            Problem(
+                str(path),
+                "",
+                _MISSING,
+                "neither a vessel file (with [vessel]) nor a scenario file (with "
+                "[scenario]); allowed: one of the two",
+            )
+        ]
+    )

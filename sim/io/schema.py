@@ -41,8 +41,11 @@ def quantity(
         try:
             x = to_si(value, kind)
         except UnitParseError as exc:
-            raise PydanticCustomError("bb_value", "{reason}; allowed: {allowed}",
-                                      {"reason": exc.reason, "allowed": exc.allowed}) from None
+            raise PydanticCustomError(
+                "bb_value",
+                "{reason}; allowed: {allowed}",
+                {"reason": exc.reason, "allowed": exc.allowed},
+            ) from None
         _check_range(x, unit, gt, ge, lt, le)
         return x
 
@@ -60,16 +63,22 @@ def number(*, gt=None, ge=None, lt=None, le=None, integer: bool = False, optiona
             if isinstance(value, str):
                 hint = " (this key takes a plain number without a unit)"
             raise PydanticCustomError(
-                "bb_value", "expected a number{hint}; allowed: {allowed}",
-                {"hint": hint, "allowed": _range_text("", gt, ge, lt, le) or "a number"})
+                "bb_value",
+                "expected a number{hint}; allowed: {allowed}",
+                {"hint": hint, "allowed": _range_text("", gt, ge, lt, le) or "a number"},
+            )
         if not math.isfinite(value):
-            raise PydanticCustomError("bb_value", "{v} is not a finite number; allowed: {allowed}",
-                                      {"v": value,
-                                       "allowed": _range_text("", gt, ge, lt, le) or "a number"})
+            raise PydanticCustomError(
+                "bb_value",
+                "{v} is not a finite number; allowed: {allowed}",
+                {"v": value, "allowed": _range_text("", gt, ge, lt, le) or "a number"},
+            )
         if integer and (float(value) != int(value)):
-            raise PydanticCustomError("bb_value", "expected a whole number; allowed: {allowed}",
-                                      {"allowed": _range_text("", gt, ge, lt, le)
-                                       or "a whole number"})
+            raise PydanticCustomError(
+                "bb_value",
+                "expected a whole number; allowed: {allowed}",
+                {"allowed": _range_text("", gt, ge, lt, le) or "a whole number"},
+            )
         _check_range(float(value), "", gt, ge, lt, le)
         return int(value) if integer else float(value)
 
@@ -91,11 +100,18 @@ def _range_text(unit, gt, ge, lt, le) -> str:
 
 
 def _check_range(x, unit, gt, ge, lt, le):
-    bad = ((gt is not None and not x > gt) or (ge is not None and not x >= ge)
-           or (lt is not None and not x < lt) or (le is not None and not x <= le))
+    bad = (
+        (gt is not None and not x > gt)
+        or (ge is not None and not x >= ge)
+        or (lt is not None and not x < lt)
+        or (le is not None and not x <= le)
+    )
     if bad:
-        raise PydanticCustomError("bb_value", "{v} is out of range; allowed: {allowed}",
-                                  {"v": _fmt(x, unit), "allowed": _range_text(unit, gt, ge, lt, le)})
+        raise PydanticCustomError(
+            "bb_value",
+            "{v} is out of range; allowed: {allowed}",
+            {"v": _fmt(x, unit), "allowed": _range_text(unit, gt, ge, lt, le)},
+        )
 
 
 class _Strict(BaseModel):
@@ -118,16 +134,19 @@ def _added_mass(value: Any) -> tuple[str, float]:
     if isinstance(value, int | float) and not isinstance(value, bool):
         if math.isfinite(value) and 0 <= value <= 2:
             return ("fraction", float(value))
-        raise PydanticCustomError("bb_value", "{v} is out of range; allowed: {allowed}",
-                                  {"v": value, "allowed": allowed})
+        raise PydanticCustomError(
+            "bb_value", "{v} is out of range; allowed: {allowed}", {"v": value, "allowed": allowed}
+        )
     try:
         kg = to_si(value, "mass")
     except UnitParseError as exc:
-        raise PydanticCustomError("bb_value", "{reason}; allowed: {allowed}",
-                                  {"reason": exc.reason, "allowed": allowed}) from None
+        raise PydanticCustomError(
+            "bb_value", "{reason}; allowed: {allowed}", {"reason": exc.reason, "allowed": allowed}
+        ) from None
     if kg < 0:
-        raise PydanticCustomError("bb_value", "{v} kg is negative; allowed: {allowed}",
-                                  {"v": kg, "allowed": allowed})
+        raise PydanticCustomError(
+            "bb_value", "{v} kg is negative; allowed: {allowed}", {"v": kg, "allowed": allowed}
+        )
     return ("mass", kg)
 
 
@@ -178,8 +197,11 @@ class TableHull(_Strict):
     def _same_length(self):
         if len(self.speeds) != len(self.resistances):
             raise PydanticCustomError(
-                "bb_value", "speeds has {a} entries but resistances has {b}; allowed: two lists "
-                "of the same length", {"a": len(self.speeds), "b": len(self.resistances)})
+                "bb_value",
+                "speeds has {a} entries but resistances has {b}; allowed: two lists "
+                "of the same length",
+                {"a": len(self.speeds), "b": len(self.resistances)},
+            )
         return self
 
 
@@ -321,17 +343,22 @@ class LegSpec(_Strict):
 
     @model_validator(mode="after")
     def _one_command(self):
-        given = [k for k in ("voltage", "current", "power", "speed") if getattr(self, k) is not None]
+        given = [
+            k for k in ("voltage", "current", "power", "speed") if getattr(self, k) is not None
+        ]
         if len(given) != 1:
             raise PydanticCustomError(
                 "bb_value",
                 "leg {name!r} sets {n} commands ({given}); allowed: exactly one of voltage, "
-                "current, power, speed", {"name": self.name, "n": len(given),
-                                          "given": ", ".join(given) or "none"})
+                "current, power, speed",
+                {"name": self.name, "n": len(given), "given": ", ".join(given) or "none"},
+            )
         if not self.until.given():
             raise PydanticCustomError(
-                "bb_value", "leg {name!r} has no end condition; allowed: at least one of "
-                "{allowed}", {"name": self.name, "allowed": ", ".join(Conditions.model_fields)})
+                "bb_value",
+                "leg {name!r} has no end condition; allowed: at least one of {allowed}",
+                {"name": self.name, "allowed": ", ".join(Conditions.model_fields)},
+            )
         return self
 
     @property
@@ -359,14 +386,17 @@ class TriggerSpec(_Strict):
         need = {"goto": "leg", "derate": "factor", "hotel": "hotel"}.get(self.then)
         if need and getattr(self, need) is None:
             raise PydanticCustomError(
-                "bb_value", "trigger {name!r} does '{then}' but has no '{need}'; allowed: "
+                "bb_value",
+                "trigger {name!r} does '{then}' but has no '{need}'; allowed: "
                 "then = 'goto' with leg, 'derate' with factor, 'hotel' with hotel, or 'stop'",
-                {"name": self.name, "then": self.then, "need": need})
+                {"name": self.name, "then": self.then, "need": need},
+            )
         if not self.when.given():
-            raise PydanticCustomError("bb_value", "trigger {name!r} has no condition in 'when'; "
-                                      "allowed: at least one of {allowed}",
-                                      {"name": self.name,
-                                       "allowed": ", ".join(Conditions.model_fields)})
+            raise PydanticCustomError(
+                "bb_value",
+                "trigger {name!r} has no condition in 'when'; allowed: at least one of {allowed}",
+                {"name": self.name, "allowed": ", ".join(Conditions.model_fields)},
+            )
         return self
 
 

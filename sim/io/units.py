@@ -89,7 +89,9 @@ def _convert(number: float, unit_text: str, kind_name: str) -> float:
     try:
         q = ureg.Quantity(number, unit_text)
     except (pint.errors.UndefinedUnitError, pint.errors.DefinitionSyntaxError) as exc:
-        raise UnitParseError(f"unknown unit {unit_text!r}", f"a {kind.name}, e.g. {kind.examples}") from exc
+        raise UnitParseError(
+            f"unknown unit {unit_text!r}", f"a {kind.name}, e.g. {kind.examples}"
+        ) from exc
     except Exception as exc:  # pint raises a variety of parse errors (AttributeError, TokenError)
         raise UnitParseError(
             f"cannot read unit {unit_text!r}", f"a {kind.name}, e.g. {kind.examples}"
@@ -135,8 +137,9 @@ def to_si(value: object, kind_name: str) -> float:
             return 0.0
         raise UnitParseError(f"the number {value} has no unit", allowed)
     if not isinstance(value, str):
-        raise UnitParseError(f"expected text such as {kind.examples}, got a {_type_word(value)}",
-                             allowed)
+        raise UnitParseError(
+            f"expected text such as {kind.examples}, got a {_type_word(value)}", allowed
+        )
     text = value.strip()
     if text.lower() in {"nan", "inf", "-inf", "+inf", "infinity"} or re.match(
         r"^[-+]?(nan|inf)", text.lower()

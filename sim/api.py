@@ -1,0 +1,186 @@
+"""The Python face of brinebolt: everything the command line does, as documented calls.
+
+>>> from sim import api
+>>> outcome = api.run_scenario("scenarios/glasswort-survey.toml", out="outputs/demo.h5")
+>>> outcome.result.summary["distance_m"]                     # doctest: +SKIP
+>>> log = api.read_log(outcome.log_path); df = log.to_dataframe()  # doctest: +SKIP
+"""
+
+from __future__ import annotations
+
+import json
+from dataclasses import dataclass
+from pathlib import Path
+
+from sim import __version__
+from sim.engine.mission import (
+    SUMMARY_UNITS,
+    MissionRunner,
+    RunObserver,
+    RunResult,
+    channel_specs,
+)
+from sim.engine.plant import Plant, build_plant
+from sim.engine.steady import SteadyPoint, steady_at_speed
+from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
+from sim.io.log import RunLog, RunLogWriter, read_log
+
+__all__ = [
+    "InputError",
+    "RunOutcome",
+    "build_plant",
+    "check_file",
+    "default_log_path",
+    "load_scenario",
+    "load_vessel",
+    "operating_table",
+    "read_log",
+    "run_scenario",
+]
+
+
+@dataclass(frozen=True)
+class RunOutcome:
+    result: RunResult
+    log_path: Path | None
+    scenario: LoadedScenario
+
+
+def default_log_path(scenario: LoadedScenario, out_dir: str | Path = "outputs") -> Path:
+    """``outputs/<scenario file stem>.h5``."""
+    return Path(out_dir) / f"{scenario.path.stem}.h5"
+
+
+class _LogObserver(RunObserver):
+    def __init__(self, writer: RunLogWriter, inner: RunObserver | None) -> None:
+        self.w, self.inner = writer, inner or RunObserver()
+
+    def samples(self, rows):
+        cols = {k: [r[k] for r in rows] for k in rows[0]}
+        self.w.append(cols)
+        self.w.flush()
+        self.inner.samples(rows)
+
+    def event(self, time_s, kind, leg, message):
+        self.w.add_event(time_s, kind, leg, message)
+        self.inner.event(time_s, kind, leg, message)
+
+    def leg(self, record):
+        self.w.add_leg(**record)
+        self.inner.leg(record)
+
+    def progress(self, time_s, time_limit_s, wall_s):
+        self.inner.progress(time_s, time_limit_s, wall_s)
+
+
+def plant_for(scenario: LoadedScenario) -> Plant:
+    return build_plant(scenario.vessel.spec, scenario.spec.water)
+
+
+def run_scenario(
+    scenario: str | Path | LoadedScenario,
+    *,
+    out: str | Path | None = None,
+    write_log: bool = True,
+    force: bool = False,
+    sample_s: float | None = None,
+    observer: RunObserver | None = None,
+    created_utc: str | None = None,
+) -> RunOutcome:
+    """Fly a scenario and (by default) write its HDF5 log.
+
+    Parameters
+    ----------
+    scenario : path or LoadedScenario
+    out : path, optional
+        Log file; default ``outputs/<scenario stem>.h5``.
+    force : bool
+        Replace an existing log.
+    sample_s : float, optional
+        Sampling interval [s] overriding the scenario's ``output.sample``.
+    observer : RunObserver, optional
+        Receives samples, events, legs and progress (e.g. a progress bar).
+    created_utc : str, optional
+        Fix the creation-time attribute (for reproducibility checks).
+
+    Raises
+    ------
+    InputError
+        When a file is invalid (every problem listed).
+    """
+    loaded = scenario if isinstance(scenario, LoadedScenario) else load_scenario(scenario)
+    plant = plant_for(loaded)
+    runner = MissionRunner(plant, loaded.spec, sample_s=sample_s, observer=None)
+    writer = None
+    log_path = None
+    if write_log:
+        log_path = Path(out) if out is not None else default_log_path(loaded)
+        log_path.parent.mkdir(parents=True, exist_ok=True)
+        writer = RunLogWriter(
+            log_path,
+            overwrite=force,
+            channel_specs=channel_specs(plant),
+            columns=[u.name for u in plant.thrusters],
+            created_utc=created_utc,
+            provenance={
+                "scenario_path": str(loaded.path),
+                "scenario_text": loaded.text,
+                "vessel_path": str(loaded.vessel.path),
+                "vessel_text": loaded.vessel.text,
+                "solver": json.dumps(
+                    {
+                        "method": runner.method,
+                        "rtol": runner.rtol,
+                        "max_step_s": runner.max_step,
+                        "sample_s": runner.sample_s,
+                    },
+                    sort_keys=True,
+                ),
+                "scenario_name": loaded.spec.scenario.name,
+                "vessel_name": loaded.vessel.spec.vessel.name,
+            },
+        )
+        runner.obs = _LogObserver(writer, observer)
+    elif observer is not None:
+        runner.obs = observer
+    try:
+        result = runner.run()
+    except BaseException as exc:
+        if writer is not None:
+            writer.abort(f"interrupted: {type(exc).__name__}: {exc}")
+        raise
+    if writer is not None:
+        writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
+        log_path = writer.close(result.ending_reason)
+    return RunOutcome(result=result, log_path=log_path, scenario=loaded)
+
+
+def operating_table(
+    vessel: str | Path,
+    speeds_m_s,
+    *,
+    salinity: float = 35.0,
+    temperature_c: float = 15.0,
+    depth_m: float = 0.0,
+    soc: float = 1.0,
+) -> list[SteadyPoint]:
+    """Steady operating points of a vessel file over a list of speeds through water."""
+    from sim.io.schema import WaterSpec
+
+    v = load_vessel(vessel)
+    plant = build_plant(
+        v.spec,
+        WaterSpec(salinity=salinity, temperature=f"{temperature_c} degC", depth=f"{depth_m} m"),
+    )
+    out = []
+    for s in speeds_m_s:
+        out.append(steady_at_speed(plant, float(s), soc=soc))
+    return out
+
+
+def read(path: str | Path) -> RunLog:
+    """Read a run log (alias of :func:`sim.io.log.read_log`)."""
+    return read_log(path)
+
+
+del __version__
