@@ -104,6 +104,7 @@ class Snapshot:
         "current_a",
         "drc1",
         "drc2",
+        "folded",
         "drive_loss_w",
         "duct_rise_k",
         "electrode_w",
@@ -194,12 +195,24 @@ class VesselModel:
             sat = sat or s
         return ops, sat
 
-    def _thruster_power(self, speed: float, volts: float, fields: list[float]) -> float:
-        ops, _ = self._all_units(speed, volts, fields)
-        return sum(
-            float(op.electrical_power_w) * u.units
-            for op, u in zip(ops, self.plant.thrusters, strict=True)
-        )
+    def _voltage_for_power(
+        self, power_w: float, speed: float, fields: list[float], sign: float = 1.0
+    ) -> tuple[float, bool]:
+        """Thruster voltage (of the given sign) at which all thrusters together take
+        ``power_w`` [W]; the drive's maximum voltage when they cannot. Returns (volts,
+        saturated). Electrical power rises monotonically with |V| beyond the electrode drop,
+        so a bracketed root (Brent) always exists on [0, V_max]."""
+        vmax = self.plant.drive_max_voltage_v
+        if power_w <= 0.0:
+            return 0.0, False
+
+        def excess(v: float) -> float:
+            return self._power_of(self._ops_for("voltage", sign * v, speed, fields)[0]) - power_w
+
+        if excess(vmax) <= 0.0:
+            return sign * vmax, True
+        v = brentq(excess, 0.0, vmax, xtol=1e-9, rtol=1e-12, maxiter=200)
+        return sign * v, False
 
     # ------------------------------------------------------------------ algebra
     def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
@@ -210,13 +223,65 @@ class VesselModel:
         self._cache_key, self._cache = key, s
         return s
 
+    def _ops_for(self, mode: str, value: float, speed: float, fields: list[float]):
+        """Operating points of one unit of each design for a voltage or a total current,
+        within the converters' voltage range and per-unit current limit."""
+        p = self.plant
+        vmax = p.drive_max_voltage_v
+        if mode == "voltage":
+            sat = abs(value) > vmax
+            ops, s2 = self._all_units(speed, max(-vmax, min(vmax, value)), fields)
+            return ops, sat or s2
+        per_unit = value / p.n_units  # current: shared equally, each unit under its own limit
+        imax = p.drive_max_current_a
+        sat = False
+        if abs(per_unit) > imax:
+            per_unit, sat = math.copysign(imax, per_unit), True
+        ops = []
+        for k in range(len(p.thrusters)):
+            duct = self._duct(k, fields[k])
+            op = operating_point(duct, p.water, speed, current_a=per_unit)
+            if abs(float(op.voltage_v)) > vmax:
+                op = operating_point(duct, p.water, speed, voltage_v=math.copysign(vmax, per_unit))
+                sat = True
+            ops.append(op)
+        return ops, sat
+
+    def _power_of(self, ops) -> float:
+        return sum(
+            float(op.electrical_power_w) * u.units
+            for op, u in zip(ops, self.plant.thrusters, strict=True)
+        )
+
+    def pack_power_limit_w(self, soc: float, v_rc: float, temp_c: float) -> float:
+        """Greatest pack power the drive may draw [W]: the cells stay at or above their minimum
+        voltage plus the drive's under-voltage margin, and the pack current within its rating.
+
+        The cell voltage is linear in current (OCV − V_rc − I·R0), so two evaluations give it.
+        """
+        p = self.plant
+        pk = p.pack
+        a = float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0).cell_v)
+        b = a - float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0).cell_v)
+        floor = pk.cell.v_min + p.undervoltage_margin_v
+        i_lim = min((a - floor) / b if b > 0 else math.inf, pk.max_discharge_current_a)
+        op = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0)
+        e = float(op.terminal_v)
+        r_total = e - float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0).terminal_v)
+        if r_total > 0:
+            i_lim = min(i_lim, e / (2.0 * r_total))  # beyond the power maximum power falls
+        if i_lim <= 0:
+            return 0.0
+        v_term = float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, i_lim).terminal_v)
+        return i_lim * v_term
+
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
         speed = float(y[I_V])
         fields = [self.field_t(k, float(y[lay.i_mag + k])) for k in range(lay.n_thr)]
         vmax = p.drive_max_voltage_v
         saturated = False
-        mode = c.mode
+        mode, value = c.mode, c.target
         if mode == "speed":
             cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + float(y[lay.i_pi])
             if cmd > vmax or cmd < -vmax:
@@ -224,45 +289,25 @@ class VesselModel:
                 cmd = max(-vmax, min(vmax, cmd))
             mode, value = "voltage", cmd
         elif mode == "power":
-            target = c.target
-            if target <= 0.0:
-                value = 0.0
-            elif self._thruster_power(speed, vmax, fields) <= target:
-                value, saturated = vmax, True
-            else:
-                value = brentq(
-                    lambda v: self._thruster_power(speed, v, fields) - target,
-                    0.0,
-                    vmax,
-                    xtol=1e-9,
-                    rtol=1e-12,
-                    maxiter=200,
-                )
-            mode = "voltage"
-        else:
-            value = c.target
+            mode, value, saturated = "voltage", *self._voltage_for_power(c.target, speed, fields)
+        ops, sat = self._ops_for(mode, value, speed, fields)
+        saturated = saturated or sat
 
-        ops = []
-        if mode == "voltage":
-            value = max(-vmax, min(vmax, value))
-            if value != c.target and c.mode == "voltage":
-                saturated = True
-            ops, sat = self._all_units(speed, value, fields)
-            saturated = saturated or sat
-        else:  # current: the total is shared equally by all units, each under its own limit
-            per_unit = value / p.n_units
-            imax = p.drive_max_current_a
-            if abs(per_unit) > imax:
-                per_unit, saturated = math.copysign(imax, per_unit), True
-            for k in range(lay.n_thr):
-                duct = self._duct(k, fields[k])
-                op = operating_point(duct, p.water, speed, current_a=per_unit)
-                if abs(float(op.voltage_v)) > vmax:
-                    op = operating_point(
-                        duct, p.water, speed, voltage_v=math.copysign(vmax, per_unit)
-                    )
-                    saturated = True
-                ops.append(op)
+        # the drive folds back when the pack cannot supply the demand within its limits
+        eta = p.drive_efficiency
+        soc, temp = float(y[I_SOC]), float(y[I_TB])
+        v_rc = float(y[I_RC1]) + float(y[I_RC2])
+        hotel = c.hotel_w + p.cryocooler_w
+        thr = self._power_of(ops)
+        folded = False
+        if thr > 0:
+            p_lim = self.pack_power_limit_w(soc, v_rc, temp)
+            if thr / eta + hotel > p_lim:
+                allowed = max(0.0, (p_lim - hotel) * eta)
+                sign = 1.0 if (ops and float(ops[0].voltage_v) >= 0) else -1.0
+                v_fold, _ = self._voltage_for_power(allowed, speed, fields, sign)
+                ops, _ = self._ops_for("voltage", v_fold, speed, fields)
+                saturated = folded = True
 
         s = Snapshot()
         s.command_v = float(ops[0].voltage_v) if ops else 0.0
@@ -283,14 +328,11 @@ class VesselModel:
         s.o2 = sum(float(op.o2_mol_s) * m for op, m in zip(ops, n, strict=True))
         s.thr_power_w = sum(float(op.electrical_power_w) * m for op, m in zip(ops, n, strict=True))
         s.total_thrust_n = sum(s.thrust_n)
-        eta = p.drive_efficiency
+        s.folded = folded
         bus = s.thr_power_w / eta if s.thr_power_w >= 0 else s.thr_power_w * eta
         s.drive_loss_w = bus - s.thr_power_w
-        s.hotel_w = c.hotel_w + p.cryocooler_w
+        s.hotel_w = hotel
         s.pack_power_w = bus + s.hotel_w
-
-        soc, temp = float(y[I_SOC]), float(y[I_TB])
-        v_rc = float(y[I_RC1]) + float(y[I_RC2])
         pk = p.pack
         op = bat.solve_current_for_power(pk, soc, v_rc, temp, s.pack_power_w)
         s.feasible = bool(op.feasible)

@@ -67,6 +67,9 @@ class Plant:
     drive_max_current_a: float
     """Per thruster unit [A]."""
     drive_max_voltage_v: float
+    undervoltage_margin_v: float
+    """The drive folds back its power to keep every cell this far above its minimum voltage
+    [V]."""
     hotel_w: float
     cryocooler_w: float
 
@@ -219,6 +222,7 @@ def build_plant(vf: VesselFile, water_spec: WaterSpec) -> Plant:
         drive_efficiency=vf.drive.efficiency,
         drive_max_current_a=vf.drive.max_current,
         drive_max_voltage_v=vf.drive.max_voltage,
+        undervoltage_margin_v=vf.drive.undervoltage_margin,
         hotel_w=vf.hotel.power,
         cryocooler_w=vf.hotel.cryocooler,
     )

@@ -250,6 +250,8 @@ class DriveSpec(_Strict):
     max_current: quantity("current", gt=0)
     """Per thruster unit: each unit has its own converter."""
     max_voltage: quantity("voltage", gt=0)
+    undervoltage_margin: quantity("voltage", ge=0, le=1) = 0.05
+    """Per cell: the drive folds back to keep cells this far above their minimum voltage."""
 
 
 class HotelSpec(_Strict):

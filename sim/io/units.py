@@ -75,8 +75,6 @@ def _registry():
     import pint
 
     ureg = pint.UnitRegistry()
-    ureg.define("Ah = ampere * hour")
-    ureg.define("mAh = milliampere * hour")
     return ureg
 
 
