@@ -14,7 +14,6 @@ from __future__ import annotations
 import argparse
 import sys
 import traceback
-from pathlib import Path
 
 EXIT_OK, EXIT_INPUT, EXIT_LIMIT, EXIT_NUMERIC, EXIT_INTERRUPT = 0, 2, 3, 4, 130
 

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import itertools
+
 import h5py
 import numpy as np
 import pytest
@@ -9,7 +11,7 @@ from engine_helpers import write_scenario
 
 from sim import api
 from sim.engine.mission import RunObserver, channel_specs
-from sim.engine.model import Control, I_SOC, I_V, I_XG
+from sim.engine.model import I_SOC, I_V, I_XG, Control
 from sim.engine.steady import steady_at_speed, steady_speed_for
 
 
@@ -104,9 +106,9 @@ until = { duration = "5 min" }
         res.append(
             (r.summary["distance_m"], r.summary["duration_s"], r.totals["energy_pack_terminal_j"])
         )
-    d = [abs(a[0] - b[0]) for a, b in zip(res, res[1:], strict=False)]
-    tt = [abs(a[1] - b[1]) for a, b in zip(res, res[1:], strict=False)]
-    ee = [abs(a[2] - b[2]) / a[2] for a, b in zip(res, res[1:], strict=False)]
+    d = [abs(a[0] - b[0]) for a, b in itertools.pairwise(res)]
+    tt = [abs(a[1] - b[1]) for a, b in itertools.pairwise(res)]
+    ee = [abs(a[2] - b[2]) / a[2] for a, b in itertools.pairwise(res)]
     # stated bound: halving rtol moves distance by < 1 mm, end time by < 10 ms, energy < 1e-5
     assert max(d) < 1e-3
     assert max(tt) < 1e-2
