@@ -298,6 +298,9 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("--temperature", default="15 degC", help='water temperature, e.g. "12 degC"')
     s.set_defaults(func=cmd_steady)
 
+    from sim.analysis import commands as analysis_commands
+
+    analysis_commands.register(sub)
     return ap
 
 
