@@ -29,7 +29,7 @@ from scipy.optimize import brentq
 
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
-from sim.physics.thruster import operating_point
+from sim.physics.thruster import prepare_scalar, scalar_point
 
 I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)
 N_FIXED = 7
@@ -144,7 +144,7 @@ class VesselModel:
         self._cache_key: tuple | None = None
         self._cache: Snapshot | None = None
         self._control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
-        self._ducts = {}  # (index, rounded field) -> DuctThruster
+        self._consts = [prepare_scalar(u.duct, plant.water) for u in plant.thrusters]
         self.n_rhs = 0
 
     @property
@@ -169,22 +169,20 @@ class VesselModel:
             return u.b_ref_tesla
         return u.b_ref_tesla * (1.0 + u.alpha_br_per_k * (magnet_c - u.t_ref_c))
 
-    def _duct(self, k: int, b: float):
-        u = self.plant.thrusters[k]
-        if b == u.b_ref_tesla:
-            return u.duct
-        return dataclasses.replace(u.duct, b_tesla=b)
+    def _point(self, k: int, speed: float, b: float, volts=None, amps=None):
+        """Operating point of one unit of thruster design k (plain floats)."""
+        kc = self._consts[k]
+        kc.b = b
+        return scalar_point(kc, speed, voltage_v=volts, current_a=amps,
+                            chlorine_fraction=self.plant.thrusters[k].duct.chlorine_fraction)
 
     def _unit_op(self, k: int, speed: float, volts: float, b: float):
         """Operating point of one unit of thruster k at a commanded voltage, with the unit's
         converter current limit applied (the converter then regulates current)."""
-        duct = self._duct(k, b)
-        water = self.plant.water
-        op = operating_point(duct, water, speed, voltage_v=volts)
+        op = self._point(k, speed, b, volts=volts)
         imax = self.plant.drive_max_current_a
-        if abs(float(op.current_a)) > imax:
-            op = operating_point(duct, water, speed, current_a=math.copysign(imax, volts))
-            return op, True
+        if abs(op.current_a) > imax:
+            return self._point(k, speed, b, amps=math.copysign(imax, volts)), True
         return op, False
 
     def _all_units(self, speed: float, volts: float, fields: list[float]):
@@ -239,10 +237,9 @@ class VesselModel:
             per_unit, sat = math.copysign(imax, per_unit), True
         ops = []
         for k in range(len(p.thrusters)):
-            duct = self._duct(k, fields[k])
-            op = operating_point(duct, p.water, speed, current_a=per_unit)
-            if abs(float(op.voltage_v)) > vmax:
-                op = operating_point(duct, p.water, speed, voltage_v=math.copysign(vmax, per_unit))
+            op = self._point(k, speed, fields[k], amps=per_unit)
+            if abs(op.voltage_v) > vmax:
+                op = self._point(k, speed, fields[k], volts=math.copysign(vmax, per_unit))
                 sat = True
             ops.append(op)
         return ops, sat

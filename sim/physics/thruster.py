@@ -155,6 +155,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
@@ -163,7 +164,7 @@ from sim.physics.duct import (
     friction_terms,
     friction_terms_scalar,
 )
-from sim.physics.electrochem import gas_rates_mol_s
+from sim.physics.electrochem import FARADAY_C_MOL, gas_rates_mol_s
 from sim.physics.errors import ModelRangeError
 from sim.physics.seawater import WaterState
 
@@ -1010,3 +1011,126 @@ def _thrust_scalar(k: _Consts, v0: float, u: float, disk: bool) -> float:
     if u >= 0.0:
         return mdot * (u / k.r - v0)
     return mdot * (-u + v0)
+
+
+# --------------------------------------------------------------------------------------------
+# full scalar operating point for ODE right-hand sides
+# --------------------------------------------------------------------------------------------
+
+
+class ScalarPoint(NamedTuple):
+    """A thruster operating point as plain floats (the fields of `ThrusterOperatingPoint`
+    that a time-domain model needs). Units as there: N, A, V, m/s, W, K, mol/s."""
+
+    thrust_n: float
+    current_a: float
+    voltage_v: float
+    duct_velocity_m_s: float
+    electrical_power_w: float
+    joule_loss_w: float
+    electrode_loss_w: float
+    friction_loss_w: float
+    wake_loss_w: float
+    flow_work_w: float
+    outlet_temperature_rise_k: float
+    h2_mol_s: float
+    cl2_mol_s: float
+    o2_mol_s: float
+
+
+def prepare_scalar(thruster: DuctThruster, water: WaterState) -> _Consts:
+    """Precompute the constants of `scalar_point` once per thruster and water state.
+
+    The returned object's field ``b`` [T] may be changed between calls (e.g. a magnet's
+    temperature derating); nothing else may."""
+    _check_water(water)
+    return _Consts(thruster, water)
+
+
+def scalar_point(
+    k: _Consts,
+    speed_m_s: float,
+    *,
+    voltage_v: float | None = None,
+    current_a: float | None = None,
+    thermal_feedback: bool = True,
+    chlorine_fraction: float = 1.0,
+) -> ScalarPoint:
+    """Operating point for one speed and one command, in pure Python (fast scalar path).
+
+    Parameters
+    ----------
+    k : constants from `prepare_scalar`
+    speed_m_s : float
+        Vessel speed V0 [m/s].
+    voltage_v, current_a : float
+        Exactly one: electrode voltage [V] or total current of all channels [A].
+    thermal_feedback : bool
+        As in `operating_point`.
+    chlorine_fraction : float
+        Fraction of the anodic charge that evolves chlorine [-] (Faraday's law).
+
+    Returns
+    -------
+    ScalarPoint
+
+    Notes
+    -----
+    Same equations and tolerances as `operating_point` (which the test suite holds it to);
+    the losses are assembled exactly as there, so V·I = electrode + Joule + flow work and
+    flow work = T·V0 + wake + friction hold to rounding.
+    """
+    v0 = float(speed_m_s)
+    sv = -1.0 if v0 < 0.0 else 1.0
+    v0 = abs(v0)
+    n_area_l = k.n * k.h * k.length
+    if voltage_v is not None:
+        volt = sv * float(voltage_v)
+        u_pass, _, disk = _iterate_scalar(k, v0, None, 0.0, False)
+        net = volt - u_pass * k.b * k.gap
+        s = 1.0 if net > k.vd else (-1.0 if net < -k.vd else 0.0)
+        if s == 0.0:
+            u, sig, j, e_field = u_pass, k.sig_in, 0.0, u_pass * k.b
+        else:
+            e_field = (volt - s * k.vd) / k.gap
+            u, sig, disk = _iterate_scalar(k, v0, e_field, 0.0, thermal_feedback)
+            j = sig * (e_field - u * k.b)
+    else:
+        j = sv * float(current_a) / n_area_l
+        u, _, disk = _iterate_scalar(k, v0, None, j * k.b * k.length, False)
+        if thermal_feedback and k.beta != 0.0:
+            ue = max(abs(u), U_FLOOR_M_S)
+            k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+            sig = min(0.5 * (k.sig_in + math.sqrt(k.sig_in * k.sig_in + 4.0 * k2)), k.sig_cap)
+        else:
+            sig = k.sig_in
+        e_field = j / sig + u * k.b
+        volt = e_field * k.gap + math.copysign(k.vd, j) if j != 0.0 else u * k.b * k.gap
+    # assemble (as `_assemble`)
+    rho = k.rho
+    q_flow = k.n * k.area * u
+    mdot = rho * q_flow
+    fwd = u >= 0.0
+    u_jet = 2.0 * u - v0 if disk else (u / k.r if fwd else u)
+    thrust = mdot * (u_jet - v0) if fwd else mdot * (abs(u_jet) + v0)
+    current = j * n_area_l
+    p_el = volt * current
+    joule = j * j / sig * (k.n * k.area * k.length)
+    electrode = k.vd * abs(current)
+    flow_work = j * k.b * k.length * q_flow
+    if k.wall:
+        fre = friction_terms_scalar(rho * abs(u) * k.d_h / k.mu, k.eps, k.alpha)[0]
+    else:
+        fre = 0.0
+    dp_wall = fre * k.mu * k.length * abs(u) / (2.0 * k.d_h * k.d_h)
+    k_minor = k.k_in + k.k_noz / (k.r * k.r) if fwd else k.k_in + k.k_noz
+    friction = (0.5 * rho * u * u * k_minor + dp_wall) * abs(q_flow)
+    wake = flow_work - thrust * v0 - friction
+    d_t = j * j * k.length / (sig * rho * k.cp * max(abs(u), U_FLOOR_M_S))
+    ai = abs(current)
+    h2 = ai / (2.0 * FARADAY_C_MOL)
+    return ScalarPoint(
+        sv * thrust, sv * current, sv * volt, sv * u, p_el, joule, electrode, friction, wake,
+        flow_work, d_t, h2, chlorine_fraction * h2,
+        (1.0 - chlorine_fraction) * ai / (4.0 * FARADAY_C_MOL),
+    )
