@@ -619,14 +619,14 @@ class MissionRunner:
             self._finish(t, y, c.label, "limit")
             return y
         if c.kind == "leg":
-            return self._next_leg(t, y, f"{c.name.replace('_', ' ')} {c.threshold:g}")
+            return self._next_leg(t, y, _cond_text(c))
         trig = self.triggers[c.owner]
         m.fired.add(c.owner)
         self._emit(
             t,
             "trigger",
             m.leg_index,
-            f"trigger {trig.name!r} ({c.name.replace('_', ' ')} {c.threshold:g}): {trig.then}",
+            f"trigger {trig.name!r} ({_cond_text(c)}): {trig.then}",
         )
         if trig.then == "stop":
             self._finish(t, y, f"stopped by trigger {trig.name!r}", "limit")
@@ -779,6 +779,26 @@ SUMMARY_UNITS = {
     "peak_thruster_current_a": "A",
     "ending_reason": "",
 }
+
+
+_COND_UNITS = {
+    "distance": "m",
+    "total_distance_above": "m",
+    "speed_above": "m/s",
+    "speed_below": "m/s",
+    "soc_below": "",
+    "cell_voltage_below": "V",
+    "duct_temperature_rise_above": "K",
+    "battery_temperature_above": "°C",
+    "magnet_temperature_above": "°C",
+    "time_after": "s",
+}
+
+
+def _cond_text(c: _Cond) -> str:
+    """'distance 600 m', 'soc below 0.45'..."""
+    unit = _COND_UNITS.get(c.name, "")
+    return f"{c.name.replace('_', ' ')} {c.threshold:g} {unit}".rstrip()
 
 
 def _describe(leg: LegSpec, derate: float) -> str:
