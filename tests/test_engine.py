@@ -287,3 +287,114 @@ until = { duration = "5 min" }
     s = r.series
     np.testing.assert_allclose(s["speed_over_ground_m_s"] - s["speed_through_water_m_s"], 0.5)
     assert r.final_state[I_XG] > 0
+
+
+def _last(r, name):
+    return (
+        float(np.ravel(r.series[name][-1:])[0])
+        if r.series[name].ndim == 1
+        else float(np.max(r.series[name][-1]))
+    )
+
+
+@pytest.mark.parametrize(
+    "cond,start,channel,pick",
+    [
+        ("speed_above", "state_of_charge = 0.9", "speed_through_water_m_s", 0.5),
+        ("speed_below", 'state_of_charge = 0.9\nspeed = "1.5 m/s"', "speed_through_water_m_s", 0.5),
+        ("battery_temperature_above", "state_of_charge = 0.9", "battery_temperature_c", 0.5),
+        (
+            "magnet_temperature_above",
+            'state_of_charge = 0.9\nmagnet_temperature = "5 degC"',
+            "magnet_temperature_c",
+            0.5,
+        ),
+        (
+            "duct_temperature_rise_above",
+            'state_of_charge = 0.9\nspeed = "1.5 m/s"',
+            "duct_temperature_rise_k",
+            0.5,
+        ),
+        ("cell_voltage_below", "state_of_charge = 0.9", "cell_voltage_v", 0.5),
+        ("time_after", "state_of_charge = 0.9", "time_s", 0.37),
+        ("total_distance_above", "state_of_charge = 0.9", "distance_m", 0.61),
+    ],
+)
+def test_each_condition_is_root_found(tmp_path, cond, start, channel, pick):
+    """A first run records the channel over a 10-minute leg; a threshold between its start and
+    end values is then set as the end condition: the leg must end exactly on it."""
+    probe = """
+[[leg]]
+name = "probe"
+voltage = "20 V"
+until = { duration = "10 min" }
+"""
+    units = {
+        "speed_above": "m/s",
+        "speed_below": "m/s",
+        "battery_temperature_above": "degC",
+        "magnet_temperature_above": "degC",
+        "duct_temperature_rise_above": "K",
+        "cell_voltage_below": "V",
+        "time_after": "s",
+        "total_distance_above": "m",
+    }
+    r0 = api.run_scenario(
+        write_scenario(tmp_path, probe, name="p.toml", start=start, output='sample = "5 s"'),
+        write_log=False,
+    ).result
+    series = r0.series[channel]
+    series = series.max(axis=1) if series.ndim == 2 else series
+    # skip the first sample: algebraic channels jump when the command is applied at t = 0
+    a, b = float(series[1]), float(series[-1])
+    thr = a + pick * (b - a)
+    legs = f"""
+[[leg]]
+name = "to-threshold"
+voltage = "20 V"
+until = {{ duration = "10 min", {cond} = "{thr!r} {units[cond]}" }}
+"""
+    r = api.run_scenario(
+        write_scenario(tmp_path, legs, name="c.toml", start=start, output='sample = "60 s"'),
+        write_log=False,
+    ).result
+    assert r.legs[0]["ending"].startswith(cond.replace("_", " "))
+    end = r.series[channel][-1]
+    end = float(np.max(end)) if np.ndim(end) else float(end)
+    assert end == pytest.approx(thr, rel=1e-7, abs=1e-7)
+
+
+def test_derate_hotel_and_stop_triggers(tmp_path):
+    legs = """
+[[leg]]
+name = "run"
+voltage = "20 V"
+until = { duration = "30 min" }
+"""
+    extra = """
+[[trigger]]
+name = "ease-off"
+when = { time_after = "5 min" }
+then = "derate"
+factor = 0.5
+[[trigger]]
+name = "lights-off"
+when = { time_after = "6 min" }
+then = "hotel"
+hotel = "10 W"
+[[trigger]]
+name = "halt"
+when = { time_after = "8 min" }
+then = "stop"
+"""
+    r = api.run_scenario(
+        write_scenario(tmp_path, legs, extra=extra, output='sample = "30 s"'), write_log=False
+    ).result
+    s = r.series
+    t = s["time_s"]
+    v = s["thruster_voltage_v"][:, 0]
+    assert v[(t > 0) & (t < 300)] == pytest.approx(20.0)
+    assert v[t > 300] == pytest.approx(10.0)
+    assert s["hotel_power_w"][t > 360] == pytest.approx(10.0)
+    assert r.ending_kind == "limit" and "halt" in r.ending_reason
+    assert r.summary["duration_s"] == pytest.approx(480.0, abs=1e-9)
