@@ -213,28 +213,17 @@ def cmd_steady(args) -> int:
         "duct ΔT K",
         "H₂ L/h",
         "Cl₂ g/h",
+        "note",
     ]
     for c in cols:
         t.add_column(c, justify="right")
+    notes: list[str] = []
     for v in speeds:
         try:
             p = steady_at_speed(plant, v)
         except SteadyError as exc:
-            t.add_row(
-                f"{v / 0.514444:.2f}",
-                f"{v:.3f}",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                "—",
-                _esc(str(exc))[:40],
-            )
+            t.add_row(f"{v / 0.514444:.2f}", f"{v:.3f}", *(["—"] * 11), "out of reach")
+            notes.append(f"{v / 0.514444:.2f} kn: {exc}")
             continue
         h2_l_h = p.h2_mol_s * 3600 * 0.0244654 * 1000  # ideal gas at 25 °C, 1 atm [L/mol]
         cl2_g_h = p.cl2_mol_s * 3600 * 70.906
@@ -252,8 +241,11 @@ def cmd_steady(args) -> int:
             f"{p.duct_rise_k:.3f}",
             f"{h2_l_h:.1f}",
             f"{cl2_g_h:.1f}",
+            "" if p.feasible else "pack short",
         )
     console.print(t)
+    for n in notes:
+        console.print(f"[yellow]note[/] {_esc(n)}")
     for c in CAUTIONS:
         console.print(f"[dim]! {_esc(c)}[/]")
     return EXIT_OK

@@ -101,7 +101,7 @@ def steady_at_speed(
         if _net(model, speed_m_s, vmax, soc, mags) < 0:
             raise SteadyError(
                 f"{speed_m_s:.3f} m/s needs more thrust than the thrusters give at the drive's "
-                f"maximum voltage {vmax:g} V (or its current limit)"
+                f"maximum voltage {vmax:g} V, its current limit or the pack's power limit"
             )
         v = brentq(
             lambda v: _net(model, speed_m_s, v, soc, mags),
