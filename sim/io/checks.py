@@ -1,100 +1,122 @@
-"""Checks on input files that need more than one value: names that must exist, legs that can
-never end, and physically suspicious (legal) designs that deserve a warning.
+"""Checks on input files that need more than one value: names that must be unique or exist, legs
+that can never end, and physically suspicious (legal) designs that deserve a warning.
+
+Two kinds of check live here:
+
+* ``raw_*`` checks read the parsed TOML data as it is (a dict of whatever the file holds) and
+  never assume a type, so they run even when single-key validation found errors: a file's
+  duplicate names and dangling references are reported together with its wrong units.
+* the other checks take the validated specs (plain SI floats) and run only once a file is valid
+  key by key.
+
+Problems show the value as the file wrote it (``"1.1 kn"``), not its SI conversion.
 """
 
 from __future__ import annotations
 
 import difflib
-import itertools
 import math
+import re
+from typing import Any
 
-from sim.io.files import Problem
-from sim.io.schema import ScenarioFile, VesselFile
+from sim.io.files import _MISSING, Problem
+from sim.io.schema import LegSpec, ScenarioFile, VesselFile
+
+__all__ = [
+    "raw_scenario_problems",
+    "raw_value",
+    "raw_vessel_problems",
+    "scenario_problems",
+    "scenario_warnings",
+    "vessel_problems",
+    "vessel_warnings",
+]
+
+KNOT_M_S = 1852.0 / 3600.0
+"""One knot [m/s] (international nautical mile of 1852 m per hour)."""
+
+GAP_TO_POLE_WARNING_RATIO = 4.0
+"""Electrode gap / pole height above which a warning is given: a magnet circuit cannot keep a
+uniform field across a wide, flat gap (project choice)."""
+
+FRESH_WATER_SIGMA_S_M = 0.5
+"""Conductivity below which the water counts as too fresh for useful MHD thrust [S/m]
+(project choice; seawater of SP 35 at 15 °C has about 4.3 S/m, PSS-78)."""
+
+_TOKEN = re.compile(r"([^.\[\]]+)|\[(\d+)\]")
+
+
+def raw_value(data: Any, key: str) -> Any:
+    """The value at a key path such as ``leg[2].until.distance`` in parsed TOML data, or the
+    missing marker when the path does not lead anywhere."""
+    node = data
+    for name, index in _TOKEN.findall(key):
+        if name:
+            if not isinstance(node, dict) or name not in node:
+                return _MISSING
+            node = node[name]
+        else:
+            i = int(index)
+            if not isinstance(node, list) or i >= len(node):
+                return _MISSING
+            node = node[i]
+    return node
+
+
+def _shown(data: Any, key: str, fallback: Any) -> Any:
+    value = raw_value(data, key) if data is not None else _MISSING
+    return fallback if value is _MISSING else value
 
 
 def _choice(file: str, key: str, value: str, known, what: str) -> Problem:
     names = sorted(known)
     close = difflib.get_close_matches(value, names, n=1, cutoff=0.5)
-    hint = f"did you mean '{close[0]}'? " if close else ""
-    return Problem(file, key, value, f"unknown {what}; {hint}allowed: {', '.join(names)}")
+    hint = f" (did you mean '{close[0]}'?)" if close else ""
+    return Problem(
+        file, key, value, f"unknown {what}{hint}; allowed: {', '.join(names) or '(none)'}"
+    )
 
 
-def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
-    """Errors in a vessel file that single-key validation cannot see."""
-    from sim.physics import battery, electrochem, magnets
+def _named(items: Any) -> list[tuple[int, str]]:
+    """(index, name) of the entries of a raw array of tables that have a text name."""
+    if not isinstance(items, list):
+        return []
+    return [
+        (i, it["name"])
+        for i, it in enumerate(items)
+        if isinstance(it, dict) and isinstance(it.get("name"), str)
+    ]
 
-    out: list[Problem] = []
-    if spec.battery.cell not in battery.CELL_SETS:
-        out.append(
-            _choice(
-                file, "battery.cell", spec.battery.cell, battery.CELL_SETS, "cell parameter set"
-            )
-        )
-    seen: set[str] = set()
-    for i, t in enumerate(spec.thruster):
-        key = f"thruster[{i}]"
-        if t.name in seen:
+
+def _duplicates(file: str, table: str, items: Any, what: str) -> list[Problem]:
+    out = []
+    first: dict[str, int] = {}
+    for i, name in _named(items):
+        if name in first:
             out.append(
                 Problem(
                     file,
-                    f"{key}.name",
-                    t.name,
-                    "duplicate thruster name; allowed: a name used once",
+                    f"{table}[{i}].name",
+                    name,
+                    f"duplicate {what} name (also {table}[{first[name]}]); allowed: each name "
+                    "used once",
                 )
             )
-        seen.add(t.name)
-        for side in ("anode", "cathode"):
-            v = getattr(t, side)
-            if v not in electrochem.ELECTRODE_MATERIALS:
-                out.append(
-                    _choice(
-                        file,
-                        f"{key}.{side}",
-                        v,
-                        electrochem.ELECTRODE_MATERIALS,
-                        "electrode material",
-                    )
-                )
-        if t.magnet_grade is not None:
-            if t.magnet != "permanent":
-                out.append(
-                    Problem(
-                        file,
-                        f"{key}.magnet_grade",
-                        t.magnet_grade,
-                        f"a grade applies to permanent magnets only (magnet = "
-                        f"{t.magnet!r}); allowed: leave it out",
-                    )
-                )
-            elif t.magnet_grade.upper() not in magnets.NDFEB_GRADES:
-                out.append(
-                    _choice(
-                        file,
-                        f"{key}.magnet_grade",
-                        t.magnet_grade,
-                        magnets.NDFEB_GRADES,
-                        "magnet grade",
-                    )
-                )
-    hull = spec.hull
-    if getattr(hull, "model", "") == "table":
-        sp = list(hull.speeds)
-        if any(b <= a for a, b in itertools.pairwise(sp)):
-            out.append(
-                Problem(
-                    file,
-                    "hull.speeds",
-                    data.get("hull", {}).get("speeds"),
-                    "speeds must increase strictly; allowed: an ascending list",
-                )
-            )
-    if not out:
-        out.extend(_build_check(spec, file))
+        first.setdefault(name, i)
     return out
 
 
-def _build_check(spec: VesselFile, file: str) -> list[Problem]:
-    """Let the physics models check what they own (e.g. the Holtrop–Mennen validity ranges)."""
+# --------------------------------------------------------------------------- vessel files
+
+
+def raw_vessel_problems(data: dict, file: str) -> list[Problem]:
+    """Errors visible in the raw vessel data whatever else is wrong with it."""
+    return _duplicates(file, "thruster", data.get("thruster"), "thruster")
+
+
+def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
+    """Errors in a valid-looking vessel file that only the physics models can see (e.g. the
+    Holtrop–Mennen validity ranges, a duct the thruster model rejects)."""
     from sim.engine.plant import _hull_model, _thruster_unit
     from sim.physics.errors import ModelRangeError
 
@@ -102,45 +124,78 @@ def _build_check(spec: VesselFile, file: str) -> list[Problem]:
     try:
         _hull_model(spec.hull, spec.vessel.mass, 1025.0)
     except ModelRangeError as exc:
-        out.append(Problem(file, "hull", exc.value, str(exc)))
+        out.append(_range_problem(file, "hull", type(spec.hull).model_fields, exc, data))
+    except (ValueError, ArithmeticError) as exc:
+        out.append(Problem(file, "hull", _shown(data, "hull.model", _MISSING), str(exc)))
     for i, t in enumerate(spec.thruster):
         try:
             _thruster_unit(t)
         except ModelRangeError as exc:
-            out.append(Problem(file, f"thruster[{i}]", exc.value, str(exc)))
+            out.append(_range_problem(file, f"thruster[{i}]", type(t).model_fields, exc, data))
+        except (ValueError, ArithmeticError) as exc:
+            out.append(Problem(file, f"thruster[{i}]", t.name, str(exc)))
     return out
 
 
-def vessel_warnings(spec: VesselFile, file: str) -> list[Problem]:
+def _range_problem(file: str, table: str, fields, exc, data: dict) -> Problem:
+    """A physics model's range error as a problem, at the file key it names when it names one."""
+    key = f"{table}.{exc.quantity}" if exc.quantity in fields else table
+    value = raw_value(data, key) if key != table else exc.value
+    if value is _MISSING:
+        value = exc.value
+    model = f" ({exc.model})" if exc.model else ""
+    return Problem(
+        file,
+        key,
+        value,
+        f"{exc.quantity} = {exc.value!r} is outside the valid range{model}; "
+        f"allowed: {exc.allowed}",
+    )
+
+
+def vessel_warnings(spec: VesselFile, file: str, data: dict | None = None) -> list[Problem]:
     """Physically suspicious but legal choices."""
     from sim.physics import battery, magnets
 
     out = []
     for i, t in enumerate(spec.thruster):
         key = f"thruster[{i}]"
+        if t.field == 0.0:
+            out.append(
+                Problem(
+                    file,
+                    f"{key}.field",
+                    _shown(data, f"{key}.field", t.field),
+                    "zero field: this thruster gives no thrust, it only heats the water and "
+                    "makes gas",
+                    "warning",
+                )
+            )
         if t.magnet == "permanent":
-            br = 1.48
+            br = max(g.br_tesla for g in magnets.NDFEB_GRADES.values())
+            what = "the strongest NdFeB grade"
             if t.magnet_grade and t.magnet_grade.upper() in magnets.NDFEB_GRADES:
                 br = magnets.NDFEB_GRADES[t.magnet_grade.upper()].br_tesla
+                what = t.magnet_grade.upper()
             if t.field > br:
                 out.append(
                     Problem(
                         file,
                         f"{key}.field",
-                        t.field,
-                        f"a permanent-magnet circuit rarely gives a gap field above "
-                        f"its remanence ({br:g} T); check the design",
+                        _shown(data, f"{key}.field", t.field),
+                        f"a permanent-magnet circuit rarely gives a gap field above the "
+                        f"remanence of its magnets ({what}: {br:g} T); check the design",
                         "warning",
                     )
                 )
-        if t.gap > 4 * t.pole_height:
+        if t.gap > GAP_TO_POLE_WARNING_RATIO * t.pole_height:
             out.append(
                 Problem(
                     file,
                     f"{key}.gap",
-                    t.gap,
+                    _shown(data, f"{key}.gap", t.gap),
                     f"electrode gap is {t.gap / t.pole_height:.1f}× the pole height; "
-                    "a real magnet rarely fills such a wide, flat gap",
+                    "a real magnet rarely fills such a wide, flat gap with a uniform field",
                     "warning",
                 )
             )
@@ -155,128 +210,186 @@ def vessel_warnings(spec: VesselFile, file: str) -> list[Problem]:
                 Problem(
                     file,
                     "drive.max_current",
-                    spec.drive.max_current,
-                    f"at full drive the pack would carry about "
-                    f"{demand / v_pack:.0f} A, above its rating of {pack_imax:.0f} A",
+                    _shown(data, "drive.max_current", spec.drive.max_current),
+                    f"at full drive and full charge the pack would carry about "
+                    f"{demand / v_pack:.0f} A, above its rating of {pack_imax:.0f} A "
+                    "(the drive will fold back)",
                     "warning",
                 )
             )
     return out
 
 
+# --------------------------------------------------------------------------- scenario files
+
+
+def raw_scenario_problems(data: dict, file: str) -> list[Problem]:
+    """Errors visible in the raw scenario data whatever else is wrong with it: duplicate leg and
+    trigger names, triggers that jump to a leg that does not exist."""
+    out = _duplicates(file, "leg", data.get("leg"), "leg")
+    out += _duplicates(file, "trigger", data.get("trigger"), "trigger")
+    legs = {name for _, name in _named(data.get("leg"))}
+    triggers = data.get("trigger")
+    if isinstance(triggers, list) and isinstance(data.get("leg"), list):
+        for i, trig in enumerate(triggers):
+            if not isinstance(trig, dict) or trig.get("then") != "goto":
+                continue
+            target = trig.get("leg")
+            if isinstance(target, str) and target not in legs:
+                out.append(_choice(file, f"trigger[{i}].leg", target, legs, "leg name"))
+    return out
+
+
+def _no_forward_thrust(leg: LegSpec) -> bool:
+    """True when the leg's command gives no forward thrust (zero or reversed)."""
+    return leg.setpoint <= 0.0
+
+
+def _why_never(leg: LegSpec, water_current: float, derates: bool) -> dict[str, str]:
+    """For each end condition of a leg that can never be reached, why not. A leg whose end
+    conditions are all in the result can only end by a trigger or the run's time limit."""
+    given = leg.until.given()
+    why: dict[str, str] = {}
+    idle = _no_forward_thrust(leg)
+    for name, threshold in given.items():
+        if name == "speed_above":
+            if idle:
+                why[name] = "with no forward thrust the vessel cannot speed up"
+            elif leg.speed is not None and leg.speed < threshold:
+                why[name] = (
+                    f"the leg holds {leg.speed:g} m/s ({leg.speed / KNOT_M_S:.2f} kn), which "
+                    f"never rises above {threshold:g} m/s ({threshold / KNOT_M_S:.2f} kn)"
+                )
+        elif name == "speed_below":
+            if leg.speed is not None and leg.speed > threshold and not derates:
+                why[name] = (
+                    f"the leg holds {leg.speed:g} m/s ({leg.speed / KNOT_M_S:.2f} kn), above "
+                    f"{threshold:g} m/s: it can only end at once, if it starts slower"
+                )
+        elif name in ("distance", "total_distance_above"):
+            if idle and water_current <= 0.0:
+                why[name] = (
+                    "with no forward thrust and no following water current the vessel only "
+                    "coasts to a stop"
+                )
+    return why if len(why) == len(given) else {}
+
+
 def scenario_problems(
-    spec: ScenarioFile, vessel: VesselFile, data: dict, file: str
+    spec: ScenarioFile, vessel: VesselFile | None, data: dict, file: str
 ) -> list[Problem]:
+    """Errors (and a few warnings) in a scenario that is valid key by key."""
     out = []
-    names: dict[str, int] = {}
+    exits = [t.name for t in spec.trigger if t.then in ("goto", "stop")]
+    derates = any(t.then == "derate" for t in spec.trigger)
     for i, leg in enumerate(spec.leg):
-        if leg.name in names:
-            out.append(
-                Problem(
-                    file,
-                    f"leg[{i}].name",
-                    leg.name,
-                    "duplicate leg name; allowed: a name used once",
+        why = _why_never(leg, spec.water.current, derates)
+        if why:
+            key = f"leg[{i}].until" + (f".{next(iter(why))}" if len(why) == 1 else "")
+            text = f"leg {leg.name!r} can never end: " + "; ".join(why.values())
+            if exits:
+                out.append(
+                    Problem(
+                        file,
+                        key,
+                        raw_value(data, key),
+                        text + f"; only a trigger ({', '.join(exits)}) or the time limit can "
+                        "end it",
+                        "warning",
+                    )
                 )
-            )
-        names.setdefault(leg.name, i)
-        u = leg.until
+            else:
+                out.append(
+                    Problem(
+                        file,
+                        key,
+                        raw_value(data, key),
+                        text + "; allowed: an end condition the leg can reach (e.g. a duration)",
+                    )
+                )
         if (
-            leg.speed is not None
-            and u.speed_above is not None
-            and u.speed_above > leg.speed
-            and len(u.given()) == 1
+            vessel is not None
+            and leg.voltage is not None
+            and abs(leg.voltage) > vessel.drive.max_voltage
         ):
-            out.append(
-                Problem(
-                    file,
-                    f"leg[{i}].until.speed_above",
-                    u.speed_above,
-                    f"the leg holds {leg.speed:g} m/s and can never exceed "
-                    f"{u.speed_above:g} m/s; allowed: a speed below the target or "
-                    "another end condition",
-                )
-            )
-        if (
-            leg.voltage is not None
-            and leg.voltage == 0
-            and u.distance is not None
-            and len(u.given()) == 1
-            and vessel is not None
-            and spec.water.current <= 0
-        ):
-            out.append(
-                Problem(
-                    file,
-                    f"leg[{i}].until.distance",
-                    u.distance,
-                    "with zero voltage and no following current the vessel can "
-                    "never cover this distance; allowed: add a duration",
-                )
-            )
-        if leg.voltage is not None and abs(leg.voltage) > vessel.drive.max_voltage:
             out.append(
                 Problem(
                     file,
                     f"leg[{i}].voltage",
-                    leg.voltage,
-                    f"above the drive's maximum voltage; allowed: ≤ {vessel.drive.max_voltage:g} V",
+                    _shown(data, f"leg[{i}].voltage", leg.voltage),
+                    "above the drive's maximum voltage; allowed: "
+                    f"≤ {vessel.drive.max_voltage:g} V",
                 )
             )
-    for i, trig in enumerate(spec.trigger):
-        if trig.then == "goto" and trig.leg not in names:
-            out.append(_choice(file, f"trigger[{i}].leg", trig.leg, names, "leg name"))
-    tl = spec.limits.time
+    st, lim = spec.start, spec.limits
+    if st.state_of_charge <= lim.state_of_charge_min:
+        out.append(
+            Problem(
+                file,
+                "start.state_of_charge",
+                _shown(data, "start.state_of_charge", st.state_of_charge),
+                f"at or below limits.state_of_charge_min ({lim.state_of_charge_min:g}): the run "
+                "would stop at once; allowed: a start above the minimum",
+            )
+        )
+    tl = lim.time
     for i, s in enumerate(spec.schedule):
         if s.at > tl:
             out.append(
                 Problem(
                     file,
                     f"schedule[{i}].at",
-                    s.at,
-                    f"after the time limit; allowed: ≤ {tl:g} s",
+                    _shown(data, f"schedule[{i}].at", s.at),
+                    f"after the time limit ({tl:g} s): it never acts",
                     "warning",
                 )
             )
     return out
 
 
-def scenario_warnings(spec: ScenarioFile, vessel: VesselFile, file: str) -> list[Problem]:
+def scenario_warnings(
+    spec: ScenarioFile, vessel: VesselFile, file: str, data: dict | None = None
+) -> list[Problem]:
     """Warnings that need the built plant (e.g. boiling water at bollard)."""
     from sim.engine.plant import build_plant
+    from sim.physics.errors import ModelRangeError
     from sim.physics.thruster import operating_point
 
     out = []
     try:
         plant = build_plant(vessel, spec.water)
-    except Exception:  # errors are reported by the checks above
+    except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
     vmax = plant.drive_max_voltage_v
     for u in plant.thrusters:
-        op = operating_point(u.duct, plant.water, 0.0, voltage_v=vmax)
-        i_unit = float(op.current_a)
-        if i_unit > plant.drive_max_current_a:
-            op = operating_point(u.duct, plant.water, 0.0, current_a=plant.drive_max_current_a)
-        rise = float(op.outlet_temperature_rise_k)
-        if plant.water.t_c + rise >= 100.0 or bool(op.boiling_risk):
+        try:
+            op = operating_point(u.duct, plant.water, 0.0, voltage_v=vmax)
+            if float(op.current_a) > plant.drive_max_current_a:
+                op = operating_point(u.duct, plant.water, 0.0, current_a=plant.drive_max_current_a)
+            rise = float(op.outlet_temperature_rise_k)
+            boiling = bool(op.boiling_risk)
+        except (ModelRangeError, ValueError, ArithmeticError):
+            continue  # the run itself reports an operating point without a solution
+        if plant.water.t_c + rise >= 100.0 or boiling:
             out.append(
                 Problem(
                     file,
                     "water.temperature",
-                    spec.water.temperature,
-                    f"thruster {u.name!r} at full drive and zero speed would heat its "
+                    _shown(data, "water.temperature", spec.water.temperature),
+                    f"thruster {u.name!r} at full drive and zero speed (bollard) would heat its "
                     f"duct water by {rise:.0f} K: boiling risk",
                     "warning",
                 )
             )
-    if not math.isfinite(plant.water.sigma_s_m) or plant.water.sigma_s_m < 0.5:
+    sigma = plant.water.sigma_s_m
+    if not math.isfinite(sigma) or sigma < FRESH_WATER_SIGMA_S_M:
         out.append(
             Problem(
                 file,
                 "water.salinity",
-                spec.water.salinity,
-                f"conductivity only {plant.water.sigma_s_m:.3f} S/m: an MHD thruster "
-                "gives little thrust in such fresh water",
+                _shown(data, "water.salinity", spec.water.salinity),
+                f"conductivity only {sigma:.3f} S/m: an MHD thruster gives little thrust in "
+                "such fresh water",
                 "warning",
             )
         )

@@ -7,6 +7,7 @@ the CLI formats :class:`InputError` for people; notebooks can inspect ``.problem
 from __future__ import annotations
 
 import difflib
+import re
 import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -26,6 +27,8 @@ __all__ = [
 ]
 
 MAX_BASE_DEPTH = 8
+MAX_FILE_BYTES = 4 * 1024 * 1024
+"""Input files larger than this are refused (a vessel or scenario file is a few kB)."""
 
 
 @dataclass(frozen=True)
@@ -87,28 +90,65 @@ class LoadedScenario:
 # --------------------------------------------------------------------------- helpers
 
 
-def _read_toml(path: Path) -> tuple[dict, str]:
+def _exists(path: Path) -> bool:
+    """Like Path.exists, but False for names the OS cannot even look up (NUL bytes, too long)."""
     try:
-        text = path.read_text(encoding="utf-8")
+        return path.exists()
+    except (OSError, ValueError):
+        return False
+
+
+def _read_toml(path: Path) -> tuple[dict, str]:
+    def fail(message: str, key: str = "") -> InputError:
+        return InputError([Problem(str(path), key, _MISSING, message)])
+
+    try:
+        if path.is_dir():
+            raise fail("is a folder, not a file; allowed: a TOML file")
+        if path.exists() and not path.is_file():
+            raise fail("is not a regular file; allowed: a TOML file")
+        if path.exists() and path.stat().st_size > MAX_FILE_BYTES:
+            raise fail(
+                f"is {path.stat().st_size / 1e6:.1f} MB, too large for a vessel or scenario "
+                f"file; allowed: at most {MAX_FILE_BYTES / 1e6:.0f} MB"
+            )
+        raw = path.read_bytes()
+    except InputError:
+        raise
     except FileNotFoundError:
-        raise InputError([Problem(str(path), "", _MISSING, "file not found")]) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(
-            [Problem(str(path), "", _MISSING, f"cannot read the file: {exc}")]
+        raise fail("file not found") from None
+    except PermissionError:
+        raise fail("cannot read the file: permission denied") from None
+    except (OSError, ValueError) as exc:
+        raise fail(f"cannot read the file: {exc}") from None
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = raw[: exc.start].count(b"\n") + 1
+        col = exc.start - (raw.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise fail(
+            f"not UTF-8 text (byte 0x{raw[exc.start]:02x} at column {col}); allowed: a TOML "
+            "file saved as UTF-8",
+            f"line {line}",
         ) from None
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise InputError(
-            [
-                Problem(
-                    str(path),
-                    "",
-                    _MISSING,
-                    f"not valid TOML: {exc}; allowed: TOML syntax "
-                    "(key = value, [table], [[array-of-tables]])",
-                )
-            ]
+        msg = str(exc)
+        m = re.search(r"\s*\(at line (\d+), column (\d+)\)", msg)
+        key = where = ""
+        if m:
+            key, where = f"line {m.group(1)}", f" at column {m.group(2)}"
+            msg = msg[: m.start()] + msg[m.end() :]
+        elif "end of document" in msg:
+            key = "end of file"
+        if msg.startswith("Cannot overwrite a value") or "twice" in msg:
+            msg = f"a key or table is defined twice ({msg})"
+        msg += where
+        raise fail(
+            f"not valid TOML: {msg}; allowed: TOML syntax (key = value, [table], "
+            "[[array-of-tables]], text in quotes)",
+            key,
         ) from None
     return data, text
 
@@ -188,18 +228,18 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
         loc = tuple(err["loc"])
         key, value = _key_path(loc, data)
         kind = err["type"]
+        if kind == "bb_value" and isinstance(value, dict):
+            value = _MISSING  # a check of a whole table: its message names what is wrong
         if kind == "extra_forbidden":
             names = _fields_at(model, loc, data)
+            if model is VesselFile and len(loc) == 1:
+                names = [*names, "extends"]
             close = difflib.get_close_matches(str(loc[-1]), names, n=1, cutoff=0.6)
-            hint = f"; did you mean '{close[0]}'?" if close else ""
-            msg = (
-                f"unknown key{hint} allowed keys here: {', '.join(names)}"
-                if names
-                else "unknown key"
-            )
-            if hint:
-                msg = f"unknown key{hint} (allowed keys here: {', '.join(names)})"
-            problems.append(Problem(file, key, value, msg))
+            hint = f" (did you mean '{close[0]}'?)" if close else ""
+            allowed = f"; allowed keys here: {', '.join(names)}" if names else ""
+            problems.append(Problem(file, key, value, f"unknown key{hint}{allowed}"))
+        elif kind == "missing" and model is ScenarioFile and loc == ("leg",):
+            problems.append(Problem(file, key, _MISSING, _EMPTY_MISSION))
         elif kind == "missing":
             problems.append(Problem(file, key, _MISSING, "required key is missing"))
         elif kind == "union_tag_invalid":
@@ -230,15 +270,17 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
             problems.append(Problem(file, key, value, f"wrong type; allowed: {want}"))
         elif kind in ("string_type",):
             problems.append(Problem(file, key, value, "wrong type; allowed: text in quotes"))
+        elif kind == "too_short" and model is ScenarioFile and loc == ("leg",):
+            problems.append(Problem(file, key, value, _EMPTY_MISSION))
         elif kind == "too_short":
+            ctx = err.get("ctx", {})
             problems.append(
                 Problem(
                     file,
                     key,
                     value,
-                    "is empty or too short; allowed: "
-                    f"at least {err.get('ctx', {}).get('min_length', 1)} "
-                    "entries",
+                    f"has {ctx.get('actual_length', 0)} entries; allowed: at least "
+                    f"{ctx.get('min_length', 1)}",
                 )
             )
         elif kind == "string_too_short":
@@ -246,6 +288,12 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
         else:
             problems.append(Problem(file, key, value, err["msg"]))
     return problems
+
+
+_EMPTY_MISSION = (
+    "empty mission: the file has no [[leg]]; allowed: at least one [[leg]] with one command "
+    "(voltage, current, power or speed) and an 'until' table"
+)
 
 
 def _merge(base: dict, over: dict) -> dict:
@@ -259,65 +307,60 @@ def _merge(base: dict, over: dict) -> dict:
 
 
 def _load_vessel_data(path: Path, chain: tuple[Path, ...] = ()) -> tuple[dict, str]:
-    """Read a vessel file, following ``extends = "other.toml"`` (deep merge, arrays replaced)."""
-    resolved = path.resolve()
-    if resolved in chain:
-        cycle = " -> ".join(str(p) for p in (*chain, resolved))
-        raise InputError(
-            [
-                Problem(
-                    str(path),
-                    "extends",
-                    str(path),
-                    f"circular vessel reference ({cycle}); allowed: a chain of "
-                    "files that ends in a file without 'extends'",
-                )
-            ]
-        )
-    if len(chain) >= MAX_BASE_DEPTH:
-        raise InputError(
-            [
-                Problem(
-                    str(path), "extends", str(path), f"more than {MAX_BASE_DEPTH} nested 'extends'"
-                )
-            ]
-        )
+    """Read a vessel file, following ``extends = "other.toml"`` (deep merge, arrays replaced).
+
+    ``chain`` holds the resolved paths of the files that extend this one."""
+    chain = (*chain, path.resolve())
     data, text = _read_toml(path)
     base_name = data.pop("extends", None)
     if base_name is None:
         return data, text
-    if not isinstance(base_name, str):
-        raise InputError(
-            [
-                Problem(
-                    str(path),
-                    "extends",
-                    base_name,
-                    "wrong type; allowed: the path of a vessel file in quotes",
-                )
-            ]
-        )
+
+    def fail(message: str) -> InputError:
+        return InputError([Problem(str(path), "extends", base_name, message)])
+
+    if not isinstance(base_name, str) or not base_name.strip():
+        raise fail("wrong type; allowed: the path of a vessel file in quotes")
     base_path = path.parent / base_name
-    if not base_path.exists():
-        raise InputError(
-            [Problem(str(path), "extends", base_name, f"file not found (looked for {base_path})")]
+    if not _exists(base_path):
+        raise fail(f"file not found (looked for {base_path})")
+    if base_path.resolve() in chain:
+        names = " -> ".join(p.name for p in (*chain, base_path.resolve()))
+        raise fail(
+            f"circular vessel reference ({names}); allowed: a chain of files that ends in a "
+            "file without 'extends'"
         )
-    base_data, base_text = _load_vessel_data(base_path, (*chain, resolved))
+    if len(chain) > MAX_BASE_DEPTH:
+        raise fail(f"more than {MAX_BASE_DEPTH} nested 'extends'; allowed: a shorter chain")
+    base_data, base_text = _load_vessel_data(base_path, chain)
     merged = _merge(base_data, data)
     return merged, base_text + f"\n# ---- {path.name} (extends {base_name}) ----\n" + text
 
 
 def validate_vessel_data(data: dict, file: str) -> VesselFile:
-    """Validate already-parsed vessel data (e.g. with command-line overrides applied)."""
+    """Validate already-parsed vessel data (e.g. with command-line overrides applied); raise
+    InputError listing every error."""
+    return _validate_vessel(data, file)[0]
+
+
+def _validate_vessel(data: dict, file: str) -> tuple[VesselFile, list[Problem]]:
+    """The validated vessel and the warnings of the cross-checks; InputError on any error."""
+    from sim.io.checks import raw_vessel_problems, vessel_problems
+
+    problems: list[Problem] = []
+    spec = None
     try:
         spec = VesselFile.model_validate(data)
     except ValidationError as exc:
-        raise InputError(_problems_from(exc, VesselFile, data, file)) from None
-    problems = _cross_check_vessel(spec, data, file)
+        problems.extend(_problems_from(exc, VesselFile, data, file))
+    problems.extend(raw_vessel_problems(data, file))
+    if spec is not None and not problems:
+        problems.extend(vessel_problems(spec, data, file))
     errors = [p for p in problems if p.severity == "error"]
     if errors:
         raise InputError(errors)
-    return spec
+    assert spec is not None
+    return spec, problems
 
 
 def load_vessel(path: str | Path, overrides: dict | None = None) -> LoadedVessel:
@@ -327,16 +370,15 @@ def load_vessel(path: str | Path, overrides: dict | None = None) -> LoadedVessel
     data, text = _load_vessel_data(path)
     if overrides:
         data = _merge(data, overrides)
-    spec = validate_vessel_data(data, str(path))
+    spec, warnings = _validate_vessel(data, str(path))
     from sim.io.checks import vessel_warnings
 
-    return LoadedVessel(path=path, text=text, spec=spec, warnings=vessel_warnings(spec, str(path)))
-
-
-def _cross_check_vessel(spec: VesselFile, data: dict, file: str) -> list[Problem]:
-    from sim.io.checks import vessel_problems
-
-    return vessel_problems(spec, data, file)
+    return LoadedVessel(
+        path=path,
+        text=text,
+        spec=spec,
+        warnings=warnings + vessel_warnings(spec, str(path), data),
+    )
 
 
 def load_scenario(
@@ -345,8 +387,11 @@ def load_scenario(
     """Read and validate a scenario file and the vessel file it names.
 
     ``vessel_path`` replaces the vessel the scenario names (for comparing variants);
-    ``vessel_overrides`` is deep-merged into the vessel data before validation.
+    ``vessel_overrides`` is deep-merged into the vessel data before validation. Every problem
+    of both files is collected before InputError is raised.
     """
+    from sim.io.checks import raw_scenario_problems, scenario_problems, scenario_warnings
+
     path = Path(path)
     data, text = _read_toml(path)
     problems: list[Problem] = []
@@ -355,17 +400,15 @@ def load_scenario(
         spec = ScenarioFile.model_validate(data)
     except ValidationError as exc:
         problems.extend(_problems_from(exc, ScenarioFile, data, str(path)))
+    problems.extend(raw_scenario_problems(data, str(path)))
     vessel = None
     vfile = vessel_path
     if vfile is None:
-        name = (
-            (data.get("scenario") or {}).get("vessel")
-            if isinstance(data.get("scenario"), dict)
-            else None
-        )
+        info = data.get("scenario")
+        name = info.get("vessel") if isinstance(info, dict) else None
         if isinstance(name, str) and name:
             vfile = path.parent / name
-            if not Path(vfile).exists():
+            if not _exists(Path(vfile)):
                 problems.append(
                     Problem(
                         str(path), "scenario.vessel", name, f"file not found (looked for {vfile})"
@@ -377,34 +420,34 @@ def load_scenario(
             vessel = load_vessel(vfile, vessel_overrides)
         except InputError as exc:
             problems.extend(exc.problems)
-    if spec is not None and vessel is not None:
-        from sim.io.checks import scenario_problems
-
-        problems.extend(scenario_problems(spec, vessel.spec, data, str(path)))
+    if spec is not None and not problems:
+        problems.extend(
+            scenario_problems(spec, vessel.spec if vessel else None, data, str(path))
+        )
     errors = [p for p in problems if p.severity == "error"]
     if errors:
         raise InputError(errors)
     assert spec is not None and vessel is not None
-    from sim.io.checks import scenario_warnings
-
     return LoadedScenario(
         path=path,
         text=text,
         spec=spec,
         vessel=vessel,
-        warnings=scenario_warnings(spec, vessel.spec, str(path)),
+        warnings=problems + scenario_warnings(spec, vessel.spec, str(path), data),
     )
 
 
 def check_file(path: str | Path) -> tuple[str, list[Problem]]:
     """Validate a vessel or a scenario file (told apart by its top-level tables).
 
-    Returns the kind ('vessel' or 'scenario') and the warnings; raises InputError on errors.
+    Returns the kind ('vessel' or 'scenario') and the warnings (a scenario's include those of
+    its vessel); raises InputError on errors.
     """
     path = Path(path)
     data, _ = _read_toml(path)
     if "scenario" in data or "leg" in data:
-        return "scenario", load_scenario(path).warnings + load_scenario(path).vessel.warnings
+        loaded = load_scenario(path)
+        return "scenario", loaded.warnings + loaded.vessel.warnings
     if "vessel" in data or "hull" in data or "extends" in data:
         return "vessel", load_vessel(path).warnings
     raise InputError(

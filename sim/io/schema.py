@@ -6,10 +6,19 @@ tell (type, unit, range); checks that need several values or other files live in
 :mod:`sim.io.files`.
 """
 
+import difflib
 import math
+from collections.abc import Callable, Iterable
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, BeforeValidator, ConfigDict, Field, model_validator
+from pydantic import (
+    AfterValidator,
+    BaseModel,
+    BeforeValidator,
+    ConfigDict,
+    Field,
+    model_validator,
+)
 from pydantic_core import PydanticCustomError
 
 from sim.io.units import KINDS, UnitParseError, to_si
@@ -114,6 +123,49 @@ def _check_range(x, unit, gt, ge, lt, le):
         )
 
 
+def known_name(what: str, names: Callable[[], Iterable[str]], *, upper: bool = False):
+    """An annotated text field that must be one of ``names()`` (with a 'did you mean' hint).
+
+    ``names`` is called when a value is checked, so the physics modules that own the lists
+    are imported only then. With ``upper=True`` the comparison ignores case."""
+
+    def check(value: str) -> str:
+        known = sorted(names())
+        probe = value.upper() if upper else value
+        if probe in known:
+            return value
+        close = difflib.get_close_matches(probe, known, n=1, cutoff=0.5)
+        hint = f" (did you mean '{close[0]}'?)" if close else ""
+        raise PydanticCustomError(
+            "bb_value",
+            "unknown {what}{hint}; allowed: {allowed}",
+            {"what": what, "hint": hint, "allowed": ", ".join(known)},
+        )
+
+    return Annotated[str, AfterValidator(check)]
+
+
+def _cell_sets():
+    from sim.physics.battery import CELL_SETS
+
+    return CELL_SETS
+
+
+def _electrodes():
+    from sim.physics.electrochem import ELECTRODE_MATERIALS
+
+    return ELECTRODE_MATERIALS
+
+
+def _grades():
+    from sim.physics.magnets import NDFEB_GRADES
+
+    return NDFEB_GRADES
+
+
+Electrode = known_name("electrode material", _electrodes)
+
+
 class _Strict(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True)
 
@@ -202,6 +254,14 @@ class TableHull(_Strict):
                 "of the same length",
                 {"a": len(self.speeds), "b": len(self.resistances)},
             )
+        bad = [i for i in range(1, len(self.speeds)) if not self.speeds[i] > self.speeds[i - 1]]
+        if bad:
+            raise PydanticCustomError(
+                "bb_value",
+                "speeds must increase strictly, but entry {i} ({v} m/s) is not above the one "
+                "before it; allowed: an ascending list of speeds",
+                {"i": bad[0], "v": f"{self.speeds[bad[0]]:g}"},
+            )
         return self
 
 
@@ -215,14 +275,15 @@ class ThrusterSpec(_Strict):
     pole_height: Length
     active_length: Length
     channels: number(ge=1, le=256, integer=True) = 1
-    field: quantity("field", gt=0, le=30)
+    field: quantity("field", ge=0, le=30)
+    """Zero is legal (a thruster without a magnet only heats the water); it draws a warning."""
     magnet: Literal["permanent", "superconducting", "electromagnet"] = "permanent"
-    magnet_grade: str | None = None
+    magnet_grade: known_name("magnet grade", _grades, upper=True) | None = None
     """Permanent magnets: grade such as 'N42SH' (sets field temperature derating and the maximum
     working temperature)."""
     field_reference_temperature: quantity("temperature", ge=-50, le=100) = 20.0
-    anode: str = "graphite"
-    cathode: str = "graphite"
+    anode: Electrode = "graphite"
+    cathode: Electrode = "graphite"
     overpotential: quantity("voltage", ge=0, le=5) = 0.5
     chlorine_fraction: Fraction = 1.0
     wall_roughness: quantity("length", ge=0) = 1e-5
@@ -236,9 +297,20 @@ class ThrusterSpec(_Strict):
     magnet_heat_capacity: quantity("heat_capacity", gt=0) = 5000.0
     magnet_conductance: quantity("thermal_conductance", gt=0) = 5.0
 
+    @model_validator(mode="after")
+    def _grade_needs_permanent(self):
+        if self.magnet_grade is not None and self.magnet != "permanent":
+            raise PydanticCustomError(
+                "bb_value",
+                "magnet_grade = '{g}' applies to permanent magnets only, but magnet = '{m}'; "
+                "allowed: leave magnet_grade out",
+                {"g": self.magnet_grade, "m": self.magnet},
+            )
+        return self
+
 
 class BatterySpec(_Strict):
-    cell: str
+    cell: known_name("cell parameter set", _cell_sets)
     series: number(ge=1, le=2000, integer=True)
     parallel: number(ge=1, le=2000, integer=True)
     extra_resistance: quantity("resistance", ge=0) = 0.0
@@ -351,14 +423,14 @@ class LegSpec(_Strict):
         if len(given) != 1:
             raise PydanticCustomError(
                 "bb_value",
-                "leg {name!r} sets {n} commands ({given}); allowed: exactly one of voltage, "
+                "leg '{name}' sets {n} commands ({given}); allowed: exactly one of voltage, "
                 "current, power, speed",
                 {"name": self.name, "n": len(given), "given": ", ".join(given) or "none"},
             )
         if not self.until.given():
             raise PydanticCustomError(
                 "bb_value",
-                "leg {name!r} has no end condition; allowed: at least one of {allowed}",
+                "leg '{name}' has no end condition; allowed: at least one of {allowed}",
                 {"name": self.name, "allowed": ", ".join(Conditions.model_fields)},
             )
         return self
@@ -389,14 +461,14 @@ class TriggerSpec(_Strict):
         if need and getattr(self, need) is None:
             raise PydanticCustomError(
                 "bb_value",
-                "trigger {name!r} does '{then}' but has no '{need}'; allowed: "
+                "trigger '{name}' does '{then}' but has no '{need}'; allowed: "
                 "then = 'goto' with leg, 'derate' with factor, 'hotel' with hotel, or 'stop'",
                 {"name": self.name, "then": self.then, "need": need},
             )
         if not self.when.given():
             raise PydanticCustomError(
                 "bb_value",
-                "trigger {name!r} has no condition in 'when'; allowed: at least one of {allowed}",
+                "trigger '{name}' has no condition in 'when'; allowed: at least one of {allowed}",
                 {"name": self.name, "allowed": ", ".join(Conditions.model_fields)},
             )
         return self

@@ -3,7 +3,9 @@
 Every dimensional value in a vessel or scenario file is a string such as ``"3 kn"``,
 ``"1.5 T"``, ``"48 V"``, ``"20 min"`` or ``"12 degC"``. :func:`to_si` parses it with pint, checks
 its dimension against what the key expects and returns a float in the SI unit the physics
-modules use (temperatures come back in °C, the unit the seawater correlations take).
+modules use (temperatures come back in °C, the unit the seawater correlations take). A
+temperature *difference* written in °C or °F (``"10 degC"`` for a rise) is read as a difference
+(10 K), never as an absolute temperature converted to kelvin.
 The physics core never sees pint.
 """
 
@@ -100,7 +102,25 @@ def _convert(number: float, unit_text: str, kind_name: str) -> float:
             f"{unit_text!r} is not a {kind.name} (it has dimension {q.dimensionality})",
             f"a {kind.name}, e.g. {kind.examples}",
         )
-    return float(q.to(target).magnitude)
+    offset = str(q.units) in _OFFSET_UNITS
+    if kind.name == "temperature_difference" and offset:
+        # "10 degC" as a rise means 10 K, not 283.15 K: read it as a difference
+        q = ureg.Quantity(number, f"delta_{q.units}")
+    elif kind.name == "temperature" and str(q.units).startswith("delta_"):
+        raise UnitParseError(
+            f"{unit_text!r} is a temperature difference, not a temperature",
+            f"a {kind.name}, e.g. {kind.examples}",
+        )
+    try:
+        return float(q.to(target).magnitude)
+    except Exception as exc:  # e.g. pint's OffsetUnitCalculusError for products of degC
+        raise UnitParseError(
+            f"cannot convert {unit_text!r} to {kind.si_unit}",
+            f"a {kind.name}, e.g. {kind.examples}",
+        ) from exc
+
+
+_OFFSET_UNITS = frozenset({"degree_Celsius", "degree_Fahrenheit", "degree_Reaumur"})
 
 
 def to_si(value: object, kind_name: str) -> float:
@@ -148,6 +168,10 @@ def to_si(value: object, kind_name: str) -> float:
         raise UnitParseError(f"{value!r} does not start with a number", allowed)
     number = float(m.group(1))
     unit_text = m.group(2)
+    if re.match(r"^,\d", unit_text):
+        raise UnitParseError(
+            f"{value!r} uses a decimal comma", f"a decimal point, e.g. {kind.examples}"
+        )
     if not unit_text:
         if number == 0 and kind.name != "temperature":
             return 0.0
