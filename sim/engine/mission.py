@@ -488,11 +488,12 @@ class MissionRunner:
     def _record(self, t: float, y: np.ndarray) -> None:
         if self._rows and self._rows[-1]["time_s"] == t:
             return  # one row per instant: the first (before an event acts) is kept
+        self._last_ty = (t, y)
         row = sample_row(self.model, t, y, self.m.leg_index)
         for k, v in row.items():
-            if isinstance(v, float) and not math.isfinite(v):
+            if not all(math.isfinite(x) for x in (v if isinstance(v, list) else [v])):
                 raise SolverFailure(
-                    f"non-finite value of {k}",
+                    f"non-finite value of {k} ({v})",
                     t,
                     self.legs[self.m.leg_index].name,
                     self._state_dict(y),
@@ -501,12 +502,24 @@ class MissionRunner:
         self._pending_rows.append(row)
 
     def _state_dict(self, y: np.ndarray) -> dict:
-        return {
+        lay = self.model.lay
+        out = {
             "speed_m_s": float(y[I_V]),
             "distance_m": float(y[I_XG]),
             "soc": float(y[I_SOC]),
             "battery_c": float(y[I_TB]),
         }
+        for k, u in enumerate(self.plant.thrusters):
+            out[f"magnet_c[{u.name}]"] = float(y[lay.i_mag + k])
+        return out
+
+    def _state_names(self) -> list[str]:
+        lay = self.model.lay
+        names = ["speed", "distance over ground", "distance through water", "state of charge"]
+        names += ["RC voltage 1", "RC voltage 2", "battery temperature"]
+        names += [f"magnet temperature of {u.name!r}" for u in self.plant.thrusters]
+        names += ["speed-hold integral", *ACC_NAMES]
+        return names[: lay.size]
 
     def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Cond]):
         """Integrate from t0 towards t1; stop at the first condition that fires."""
@@ -520,10 +533,23 @@ class MissionRunner:
             g.direction = c.direction
             return g
 
+        def rhs(t, y):  # remembers where it is, so a failure can say so; refuses NaN/inf
+            self._last_ty = (t, y)
+            dy = model.rhs(t, y)
+            if not np.isfinite(dy).all():
+                bad = ", ".join(self._state_names()[k] for k in np.flatnonzero(~np.isfinite(dy)))
+                raise SolverFailure(
+                    f"non-finite derivative of {bad}",
+                    t,
+                    self.legs[self.m.leg_index].name,
+                    self._state_dict(y),
+                )
+            return dy
+
         events = [make(c) for c in conds]
         try:
             sol = solve_ivp(
-                model.rhs,
+                rhs,
                 (t0, t1),
                 y0,
                 method=self.method,
@@ -536,11 +562,12 @@ class MissionRunner:
         except SolverFailure:
             raise
         except Exception as exc:  # the model raised inside the integrator
+            t_bad, y_bad = self._last_ty
             raise SolverFailure(
                 f"model failure ({type(exc).__name__}: {exc})",
-                t0,
+                float(t_bad),
                 self.legs[self.m.leg_index].name,
-                self._state_dict(y0),
+                self._state_dict(y_bad),
             ) from exc
         if sol.status == -1:
             raise SolverFailure(
@@ -703,7 +730,25 @@ class MissionRunner:
             if s.at < self.time_limit:
                 env.process(self._scheduled(env, s.at, s.hotel))
         proc = env.process(self._process(env, y0))
-        env.run(until=proc)
+        self._last_ty = (0.0, y0)
+        try:
+            env.run(until=proc)
+        except BaseException as exc:
+            try:  # hand the samples recorded so far to the observers (the partial log)
+                self._flush_rows()
+            except Exception:
+                pass
+            if isinstance(exc, SolverFailure) or not isinstance(
+                exc, ArithmeticError | ValueError | RuntimeError
+            ):
+                raise
+            t_bad, y_bad = self._last_ty
+            raise SolverFailure(
+                f"model failure ({type(exc).__name__}: {exc})",
+                float(t_bad),
+                self.legs[self.m.leg_index].name,
+                self._state_dict(y_bad),
+            ) from exc
         return self._result(_time.perf_counter() - wall0)
 
     def _result(self, wall: float) -> RunResult:
