@@ -23,7 +23,7 @@ from sim.engine.mission import (
 from sim.engine.plant import Plant, build_plant
 from sim.engine.steady import SteadyPoint, steady_at_speed
 from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
-from sim.io.log import RunLog, RunLogWriter, read_log
+from sim.io.log import RunLog, RunLogWriter, incomplete_path_for, read_log
 
 __all__ = [
     "InputError",
@@ -31,6 +31,7 @@ __all__ = [
     "build_plant",
     "check_file",
     "default_log_path",
+    "free_log_path",
     "load_scenario",
     "load_vessel",
     "operating_table",
@@ -49,6 +50,17 @@ class RunOutcome:
 def default_log_path(scenario: LoadedScenario, out_dir: str | Path = "outputs") -> Path:
     """``outputs/<scenario file stem>.h5``."""
     return Path(out_dir) / f"{scenario.path.stem}.h5"
+
+
+def free_log_path(path: str | Path) -> Path:
+    """``path`` if neither it nor its in-progress file (``*.incomplete.h5``) exists, else the
+    first free ``<stem>-2.h5``, ``<stem>-3.h5``, ... beside it."""
+    path = Path(path)
+    candidate, n = path, 1
+    while candidate.exists() or incomplete_path_for(candidate).exists():
+        n += 1
+        candidate = path.with_name(f"{path.stem}-{n}{path.suffix}")
+    return candidate
 
 
 class _LogObserver(RunObserver):
@@ -93,9 +105,11 @@ def run_scenario(
     ----------
     scenario : path or LoadedScenario
     out : path, optional
-        Log file; default ``outputs/<scenario stem>.h5``.
+        Log file; default ``outputs/<scenario stem>.h5``, or when that exists (and ``force`` is
+        not given) the first free ``outputs/<scenario stem>-2.h5``, ``-3.h5``, ...
     force : bool
-        Replace an existing log.
+        Replace an existing log. Without it an existing ``out`` raises
+        :class:`~sim.io.log.LogExistsError`.
     sample_s : float, optional
         Sampling interval [s] overriding the scenario's ``output.sample``.
     observer : RunObserver, optional
@@ -107,6 +121,11 @@ def run_scenario(
     ------
     InputError
         When a file is invalid (every problem listed).
+    SolverFailure
+        When the run fails numerically; it names the time, leg and state, and its attribute
+        ``partial_log`` is the path of the incomplete log kept on disk (None without a log).
+    KeyboardInterrupt
+        Passed on after the incomplete log was written (attribute ``partial_log`` as above).
     """
     loaded = scenario if isinstance(scenario, LoadedScenario) else load_scenario(scenario)
     plant = plant_for(loaded)
@@ -114,7 +133,12 @@ def run_scenario(
     writer = None
     log_path = None
     if write_log:
-        log_path = Path(out) if out is not None else default_log_path(loaded)
+        if out is not None:
+            log_path = Path(out)
+        else:
+            log_path = default_log_path(loaded)
+            if not force:
+                log_path = free_log_path(log_path)
         log_path.parent.mkdir(parents=True, exist_ok=True)
         writer = RunLogWriter(
             log_path,
@@ -145,13 +169,18 @@ def run_scenario(
         runner.obs = observer
     try:
         result = runner.run()
+        if writer is not None:
+            writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
+            log_path = writer.close(result.ending_reason)
     except BaseException as exc:
         if writer is not None:
-            writer.abort(f"interrupted: {type(exc).__name__}: {exc}")
+            why = "interrupted" if isinstance(exc, KeyboardInterrupt) else "failed"
+            text = f"{why}: {type(exc).__name__}: {exc}"
+            try:
+                exc.partial_log = writer.abort(text if len(text) <= 2000 else text[:1997] + "...")
+            except Exception:  # the original error matters more than a failed last snapshot
+                exc.partial_log = writer.incomplete_path
         raise
-    if writer is not None:
-        writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
-        log_path = writer.close(result.ending_reason)
     return RunOutcome(result=result, log_path=log_path, scenario=loaded)
 
 
