@@ -7,6 +7,7 @@ the CLI formats :class:`InputError` for people; notebooks can inspect ``.problem
 from __future__ import annotations
 
 import difflib
+import json
 import re
 import tomllib
 from dataclasses import dataclass, field
@@ -370,6 +371,12 @@ def load_vessel(path: str | Path, overrides: dict | None = None) -> LoadedVessel
     data, text = _load_vessel_data(path)
     if overrides:
         data = _merge(data, overrides)
+        # the log's provenance must describe the vessel actually flown
+        text += (
+            "\n# ---- overrides applied on top of the file above (JSON, deep-merged) ----\n# "
+            + json.dumps(overrides, sort_keys=True, default=str)
+            + "\n"
+        )
     spec, warnings = _validate_vessel(data, str(path))
     from sim.io.checks import vessel_warnings
 
