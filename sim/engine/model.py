@@ -173,8 +173,13 @@ class VesselModel:
         """Operating point of one unit of thruster design k (plain floats)."""
         kc = self._consts[k]
         kc.b = b
-        return scalar_point(kc, speed, voltage_v=volts, current_a=amps,
-                            chlorine_fraction=self.plant.thrusters[k].duct.chlorine_fraction)
+        return scalar_point(
+            kc,
+            speed,
+            voltage_v=volts,
+            current_a=amps,
+            chlorine_fraction=self.plant.thrusters[k].duct.chlorine_fraction,
+        )
 
     def _unit_op(self, k: int, speed: float, volts: float, b: float):
         """Operating point of one unit of thruster k at a commanded voltage, with the unit's
@@ -258,19 +263,20 @@ class VesselModel:
         """
         p = self.plant
         pk = p.pack
-        a = float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0).cell_v)
-        b = a - float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0).cell_v)
+        at0 = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0)
+        at1 = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0)
+        cell0, e = float(at0.cell_v), float(at0.terminal_v)
+        cell_drop = cell0 - float(at1.cell_v)  # cell volts lost per pack ampere
+        r_total = e - float(at1.terminal_v)  # pack ohms incl. busbars
         floor = pk.cell.v_min + p.undervoltage_margin_v
-        i_lim = min((a - floor) / b if b > 0 else math.inf, pk.max_discharge_current_a)
-        op = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0)
-        e = float(op.terminal_v)
-        r_total = e - float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0).terminal_v)
+        i_lim = min(
+            (cell0 - floor) / cell_drop if cell_drop > 0 else math.inf, pk.max_discharge_current_a
+        )
         if r_total > 0:
             i_lim = min(i_lim, e / (2.0 * r_total))  # beyond the power maximum power falls
         if i_lim <= 0:
             return 0.0
-        v_term = float(bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, i_lim).terminal_v)
-        return i_lim * v_term
+        return i_lim * (e - i_lim * r_total)
 
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
