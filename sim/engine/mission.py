@@ -242,14 +242,14 @@ class MissionRunner:
         sample_s: float | None = None,
         observer: RunObserver | None = None,
         chunk_wall_s: float = 2.0,
-        method: str = "RK45",
+        method: str | None = None,
     ) -> None:
         self.plant = plant
         self.sc = scenario
         self.model = VesselModel(plant)
         self.sample_s = float(sample_s or scenario.output.sample)
         self.obs = observer or RunObserver()
-        self.method = method
+        self.method = method or scenario.solver.method
         self.rtol = scenario.solver.rtol
         self.max_step = scenario.solver.max_step
         self.time_limit = scenario.limits.time

@@ -372,6 +372,10 @@ class OutputSpec(_Strict):
 class SolverSpec(_Strict):
     rtol: number(ge=1e-12, le=1e-2) = 1e-7
     max_step: quantity("time", gt=0) = 600.0
+    method: Literal["RK45", "DOP853", "LSODA", "Radau", "BDF"] = "RK45"
+    """scipy.integrate.solve_ivp method: explicit Runge–Kutta (RK45, DOP853) for most missions,
+    LSODA (switches to a stiff method) for long steady legs with a fast speed hold, Radau or BDF
+    for stiff plants."""
 
 
 class LimitsSpec(_Strict):
