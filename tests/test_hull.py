@@ -177,7 +177,7 @@ def test_lamb_added_mass_sphere_and_spheroids() -> None:
 def test_hm1982_worked_example_intermediates(hm1982: DisplacementHull) -> None:
     # Holtrop & Mennen (1982) section 5, printed intermediate values. I could not read the page
     # itself; these are the printed numbers as I recall them, matched by two independent public
-    # transcriptions; tolerances are one unit of the last printed digit or 0.1 %.
+    # code reproductions; tolerances are one unit of the last printed digit or 0.1 %.
     c = hm1982.coefficients
     assert froude_number(25 * KNOT_M_S, 205.0) == pytest.approx(0.2868, abs=1e-4)
     assert c["Cp"] == pytest.approx(0.5833, abs=1e-4)
