@@ -173,7 +173,7 @@ def leg_table(legs: Sequence, units: str | OutputUnits = "nautical") -> Table:
                 f"{u.distance(dist):.3f}",
                 f"{e / 3600.0:.1f}",
                 _num(u.energy_per_distance(e / dist), ".4g") if dist > 0 else "—",
-                f"{u.speed(dist / dur):.3g}" if dur > 0 else "—",
+                f"{u.speed(dist / dur):.2f}" if dur > 0 else "—",
                 str(g["ending"]),
             ]
         )
