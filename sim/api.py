@@ -12,7 +12,6 @@ import json
 from dataclasses import dataclass
 from pathlib import Path
 
-from sim import __version__
 from sim.engine.mission import (
     SUMMARY_UNITS,
     MissionRunner,
@@ -23,7 +22,7 @@ from sim.engine.mission import (
 from sim.engine.plant import Plant, build_plant
 from sim.engine.steady import SteadyPoint, steady_at_speed
 from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
-from sim.io.log import RunLog, RunLogWriter, incomplete_path_for, read_log
+from sim.io.log import RunLogWriter, incomplete_path_for, read_log
 
 __all__ = [
     "InputError",
@@ -205,11 +204,3 @@ def operating_table(
     for s in speeds_m_s:
         out.append(steady_at_speed(plant, float(s), soc=soc))
     return out
-
-
-def read(path: str | Path) -> RunLog:
-    """Read a run log (alias of :func:`sim.io.log.read_log`)."""
-    return read_log(path)
-
-
-del __version__

@@ -14,7 +14,6 @@ from __future__ import annotations
 
 import math
 import time as _time
-from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -38,11 +37,7 @@ from sim.engine.plant import Plant
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.io.schema import Conditions, LegSpec, ScenarioFile, TriggerSpec
 
-__all__ = ["EXIT_REASONS", "MissionRunner", "RunObserver", "RunResult", "SolverFailure"]
-
-EXIT_REASONS = {
-    "mission complete": 0,
-}
+__all__ = ["MissionRunner", "RunObserver", "RunResult", "SolverFailure"]
 
 
 class SolverFailure(RuntimeError):
@@ -850,6 +845,3 @@ def _describe(leg: LegSpec, derate: float) -> str:
     unit = {"voltage": "V", "current": "A", "power": "W", "speed": "m/s"}[leg.mode]
     d = f" × derate {derate:g}" if derate != 1.0 else ""
     return f"hold {leg.mode} {leg.setpoint:g} {unit}{d}"
-
-
-ProgressFn = Callable[[float, float, float], None]

@@ -313,23 +313,30 @@ class VesselModel:
                 saturated = folded = True
 
         s = Snapshot()
-        s.command_v = float(ops[0].voltage_v) if ops else 0.0
+        s.command_v = ops[0].voltage_v if ops else 0.0
         s.saturated = saturated
         s.field_t = fields
-        n = [u.units for u in p.thrusters]
-        s.thrust_n = [float(op.thrust_n) * m for op, m in zip(ops, n, strict=True)]
-        s.current_a = [float(op.current_a) * m for op, m in zip(ops, n, strict=True)]
-        s.voltage_v = [float(op.voltage_v) for op in ops]
-        s.duct_rise_k = [float(op.outlet_temperature_rise_k) for op in ops]
-        s.joule_w = sum(float(op.joule_loss_w) * m for op, m in zip(ops, n, strict=True))
-        s.electrode_w = sum(float(op.electrode_loss_w) * m for op, m in zip(ops, n, strict=True))
-        s.friction_w = sum(float(op.friction_loss_w) * m for op, m in zip(ops, n, strict=True))
-        s.wake_w = sum(float(op.wake_loss_w) * m for op, m in zip(ops, n, strict=True))
-        s.flow_work_w = sum(float(op.flow_work_w) * m for op, m in zip(ops, n, strict=True))
-        s.h2 = sum(float(op.h2_mol_s) * m for op, m in zip(ops, n, strict=True))
-        s.cl2 = sum(float(op.cl2_mol_s) * m for op, m in zip(ops, n, strict=True))
-        s.o2 = sum(float(op.o2_mol_s) * m for op, m in zip(ops, n, strict=True))
-        s.thr_power_w = sum(float(op.electrical_power_w) * m for op, m in zip(ops, n, strict=True))
+        # per-design values and sums over all units, in one pass over the thruster designs
+        thrust, current, volts, rise = [], [], [], []
+        joule = electrode = friction = wake = flow = h2 = cl2 = o2 = thr = 0.0
+        for op, u in zip(ops, p.thrusters, strict=True):
+            m = u.units
+            thrust.append(op.thrust_n * m)
+            current.append(op.current_a * m)
+            volts.append(op.voltage_v)
+            rise.append(op.outlet_temperature_rise_k)
+            joule += op.joule_loss_w * m
+            electrode += op.electrode_loss_w * m
+            friction += op.friction_loss_w * m
+            wake += op.wake_loss_w * m
+            flow += op.flow_work_w * m
+            h2 += op.h2_mol_s * m
+            cl2 += op.cl2_mol_s * m
+            o2 += op.o2_mol_s * m
+            thr += op.electrical_power_w * m
+        s.thrust_n, s.current_a, s.voltage_v, s.duct_rise_k = thrust, current, volts, rise
+        s.joule_w, s.electrode_w, s.friction_w, s.wake_w = joule, electrode, friction, wake
+        s.flow_work_w, s.h2, s.cl2, s.o2, s.thr_power_w = flow, h2, cl2, o2, thr
         s.total_thrust_n = sum(s.thrust_n)
         s.folded = folded
         bus = s.thr_power_w / eta if s.thr_power_w >= 0 else s.thr_power_w * eta
