@@ -87,12 +87,15 @@ def main() -> None:
             )
             print(f"     same with the HDF5 log written: {wall:7.3f} s")
     tracemalloc.start()
-    api.run_scenario(api.load_scenario(ROOT / "scenarios" / "halite-coastal-trial.toml"),
-                     write_log=False)
+    api.run_scenario(
+        api.load_scenario(ROOT / "scenarios" / "halite-coastal-trial.toml"), write_log=False
+    )
     _, peak = tracemalloc.get_traced_memory()
     tracemalloc.stop()
-    print(f"  memory: Python allocations peak {peak / 2**20:.1f} MiB during the Halite trial; "
-          f"process peak RSS {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MiB")
+    print(
+        f"  memory: Python allocations peak {peak / 2**20:.1f} MiB during the Halite trial; "
+        f"process peak RSS {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MiB"
+    )
     w = water_state(35.0, 15.0)
     th = DuctThruster(
         gap_m=0.1, height_m=0.1, length_m=1.0, n_channels=2, b_tesla=5.0, roughness_m=2e-5

@@ -148,15 +148,18 @@ def cmd_run(args) -> int:
                 self.p.console.print(f"  t = {time_s / 60:7.2f} min  {kind:8s} {_esc(message)}")
 
     ctrl_c = _CtrlC()
-    with ctrl_c, Progress(
-        TextColumn("[bold]{task.description}"),
-        BarColumn(),
-        TextColumn("{task.percentage:>5.1f}% of time limit"),
-        TimeElapsedColumn(),
-        console=console,
-        transient=True,
-        disable=args.quiet,
-    ) as progress:
+    with (
+        ctrl_c,
+        Progress(
+            TextColumn("[bold]{task.description}"),
+            BarColumn(),
+            TextColumn("{task.percentage:>5.1f}% of time limit"),
+            TimeElapsedColumn(),
+            console=console,
+            transient=True,
+            disable=args.quiet,
+        ) as progress,
+    ):
         task = progress.add_task(
             f"flying {loaded.spec.scenario.name}", total=loaded.spec.limits.time
         )
@@ -529,5 +532,3 @@ def _partial_log_text(exc: BaseException) -> str:
 
 if __name__ == "__main__":
     sys.exit(main())
-
-

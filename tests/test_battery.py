@@ -138,8 +138,14 @@ def test_one_rc_constant_current_closed_form(ns, np_):
     i = 2.0 * 27.63 * np_
     r1 = 1.6e-3 * ns / np_
     c1 = 18721.0 * np_ / ns
-    sol = solve_ivp(lambda t, y: bt.drc_dt(pack, 0.5, 20.0, i, y), (0.0, 200.0), [0.0],
-                    rtol=1e-11, atol=1e-14, dense_output=True)
+    sol = solve_ivp(
+        lambda t, y: bt.drc_dt(pack, 0.5, 20.0, i, y),
+        (0.0, 200.0),
+        [0.0],
+        rtol=1e-11,
+        atol=1e-14,
+        dense_output=True,
+    )
     t = np.linspace(1.0, 200.0, 50)
     exact = i * r1 * (1.0 - np.exp(-t / (r1 * c1)))
     np.testing.assert_allclose(sol.sol(t)[0], exact, rtol=1e-6)
@@ -150,8 +156,14 @@ def test_two_rc_pairs_are_independent_first_order_lags():
     pack = bt.Pack(LFP, 4, 2)
     i = 150.0
     (r1, c1), (r2, c2) = bt.rc_params(pack, 0.5, 25.0)
-    sol = solve_ivp(lambda t, y: bt.drc_dt(pack, 0.5, 25.0, i, y), (0.0, 900.0), [0.0, 0.0],
-                    rtol=1e-11, atol=1e-14, dense_output=True)
+    sol = solve_ivp(
+        lambda t, y: bt.drc_dt(pack, 0.5, 25.0, i, y),
+        (0.0, 900.0),
+        [0.0, 0.0],
+        rtol=1e-11,
+        atol=1e-14,
+        dense_output=True,
+    )
     t = np.linspace(5.0, 900.0, 40)
     np.testing.assert_allclose(sol.sol(t)[0], i * r1 * (1 - np.exp(-t / (r1 * c1))), rtol=1e-6)
     np.testing.assert_allclose(sol.sol(t)[1], i * r2 * (1 - np.exp(-t / (r2 * c2))), rtol=1e-6)
@@ -162,18 +174,24 @@ def _discharge(pack: bt.Pack, current: float, t_end: float, soc0: float, temp_c:
     n = pack.n_rc
 
     def rhs(_t, y):
-        soc, v = y[0], tuple(y[1:1 + n])
+        soc, v = y[0], tuple(y[1 : 1 + n])
         op = bt.solve_terminal_for_current(pack, soc, sum(v), temp_c, current)
         return [
             bt.dsoc_dt(pack, current),
             *bt.drc_dt(pack, soc, temp_c, current, v),
-            op.terminal_v * current,                                  # ∫V_term·I dt
-            bt.heat_generation_w(pack, current, soc, temp_c, v),     # ∫Q dt
-            bt.ocv_v(pack, soc) * current,                            # ∫OCV·I dt
-            sum(vk * dv * ck for vk, dv, (_r, ck) in zip(               # ∫ΣV·C·dV/dt dt
-                v, bt.drc_dt(pack, soc, temp_c, current, v),
-                bt.rc_params(pack, soc, temp_c), strict=True)),
-            current,                                                  # ∫I dt
+            op.terminal_v * current,  # ∫V_term·I dt
+            bt.heat_generation_w(pack, current, soc, temp_c, v),  # ∫Q dt
+            bt.ocv_v(pack, soc) * current,  # ∫OCV·I dt
+            sum(
+                vk * dv * ck
+                for vk, dv, (_r, ck) in zip(  # ∫ΣV·C·dV/dt dt
+                    v,
+                    bt.drc_dt(pack, soc, temp_c, current, v),
+                    bt.rc_params(pack, soc, temp_c),
+                    strict=True,
+                )
+            ),
+            current,  # ∫I dt
         ]
 
     y0 = [soc0, *([0.0] * n), 0.0, 0.0, 0.0, 0.0, 0.0]
@@ -216,7 +234,8 @@ def test_charge_conservation_discharge_and_charge():
     sol = _discharge(pack, -40.0, 3000.0, 0.05, 20.0)
     dsoc = sol.y[0, -1] - sol.y[0, 0]
     assert NMC.coulombic_efficiency * -sol.y[-1, -1] == pytest.approx(
-        dsoc * pack.capacity_ah * 3600.0, rel=1e-9)
+        dsoc * pack.capacity_ah * 3600.0, rel=1e-9
+    )
 
 
 def test_dsoc_dt_values():
@@ -225,8 +244,11 @@ def test_dsoc_dt_values():
     assert bt.dsoc_dt(pack, 2 * 27.63) == pytest.approx(-1.0 / 3600.0, rel=1e-12)
     assert bt.dsoc_dt(pack, -2 * 27.63) == pytest.approx(0.999 / 3600.0, rel=1e-12)
     assert bt.dsoc_dt(pack, 0.0) == 0.0
-    np.testing.assert_allclose(bt.dsoc_dt(pack, np.array([2 * 27.63, -2 * 27.63])),
-                               [-1 / 3600.0, 0.999 / 3600.0], rtol=1e-12)
+    np.testing.assert_allclose(
+        bt.dsoc_dt(pack, np.array([2 * 27.63, -2 * 27.63])),
+        [-1 / 3600.0, 0.999 / 3600.0],
+        rtol=1e-12,
+    )
 
 
 @pytest.mark.parametrize("power", [5e3, 15e3, -20e3, 1e-3])
@@ -259,8 +281,9 @@ def test_power_solve_vector_matches_scalar():
         assert bool(op.feasible[k]) == one.feasible
         assert bool(op.within_limits[k]) == one.within_limits
         assert op.reason[k] == one.reason
-    np.testing.assert_allclose(op.current_a[op.feasible] * op.terminal_v[op.feasible],
-                               power[op.feasible], rtol=1e-12)
+    np.testing.assert_allclose(
+        op.current_a[op.feasible] * op.terminal_v[op.feasible], power[op.feasible], rtol=1e-12
+    )
 
 
 def test_heat_is_sum_of_joule_terms():
@@ -275,8 +298,9 @@ def test_heat_is_sum_of_joule_terms():
     assert q == pytest.approx(i * (bt.ocv_v(pack, soc) - op.terminal_v), rel=1e-12)
     q_cells = bt.heat_generation_w(pack, i, soc, t, v, include_busbars=False)
     assert q - q_cells == pytest.approx(i * i * 1e-3, rel=1e-9)
-    qa = bt.heat_generation_w(pack, np.array([i, -i]), soc, t,
-                              (np.array([v[0], v[0]]), np.array([v[1], v[1]])))
+    qa = bt.heat_generation_w(
+        pack, np.array([i, -i]), soc, t, (np.array([v[0], v[0]]), np.array([v[1], v[1]]))
+    )
     assert qa[0] == pytest.approx(q, rel=1e-13)
 
 
@@ -288,7 +312,8 @@ def test_reversible_heat_sign_bernardi():
     base = bt.Pack(NMC, 10, 1)
     for i in (30.0, -30.0):
         dq = bt.heat_generation_w(pack, i, 0.5, 25.0, 0.0) - bt.heat_generation_w(
-            base, i, 0.5, 25.0, 0.0)
+            base, i, 0.5, 25.0, 0.0
+        )
         assert dq == pytest.approx(-i * 298.15 * 10 * 1e-4, rel=1e-12)
 
 
@@ -299,11 +324,18 @@ def test_lumped_thermal_energy_balance():
     cth = 20 * 0.65 * 1000.0
     assert pack.thermal_mass_j_k == pytest.approx(cth, rel=1e-12)
     assert bt.battery_temperature_rate_k_s(pack, 130.0, 25.0, 25.0, 0.0) == pytest.approx(
-        130.0 / cth, rel=1e-12)
+        130.0 / cth, rel=1e-12
+    )
     assert bt.battery_temperature_rate_k_s(pack, 50.0, 30.0, 20.0, 5.0) == pytest.approx(
-        0.0, abs=1e-15)
-    sol = solve_ivp(lambda t, y: [bt.battery_temperature_rate_k_s(pack, 40.0, y[0], 15.0, 2.0)],
-                    (0.0, 2e5), [15.0], rtol=1e-10, atol=1e-10)
+        0.0, abs=1e-15
+    )
+    sol = solve_ivp(
+        lambda t, y: [bt.battery_temperature_rate_k_s(pack, 40.0, y[0], 15.0, 2.0)],
+        (0.0, 2e5),
+        [15.0],
+        rtol=1e-10,
+        atol=1e-10,
+    )
     assert sol.y[0, -1] == pytest.approx(15.0 + 40.0 / 2.0, rel=1e-6)
     with pytest.raises(ModelRangeError, match="ua_w_k"):
         bt.battery_temperature_rate_k_s(pack, 1.0, 20.0, 20.0, -1.0)
@@ -397,9 +429,11 @@ def test_max_power_at_min_voltage():
     r9 = bt.r0_ohm(pack, 0.9, 20.0)
     imax = pack.max_discharge_current_a
     assert bt.max_power_at_min_voltage_w(pack, 0.9, 0.0, 20.0) == pytest.approx(
-        imax * (e9 - imax * r9), rel=1e-12)
-    pv = bt.max_power_at_min_voltage_w(pack, np.array([0.1, 0.9, 0.0]), np.array([0, 0, 20.0]),
-                                       20.0)
+        imax * (e9 - imax * r9), rel=1e-12
+    )
+    pv = bt.max_power_at_min_voltage_w(
+        pack, np.array([0.1, 0.9, 0.0]), np.array([0, 0, 20.0]), 20.0
+    )
     assert pv[0] == pytest.approx(p, rel=1e-12)
     assert pv[2] == 0.0  # polarisation already below v_min: nothing available
     assert bt.max_power_at_min_voltage_w(pack, 0.0, 20.0, 20.0) == 0.0
@@ -475,8 +509,11 @@ def test_cell_validation_names_field(changes, field):
 
 @pytest.mark.parametrize(
     ("kw", "field"),
-    [({"n_series": 0}, "n_series"), ({"n_parallel": 1.5}, "n_parallel"),
-     ({"extra_series_resistance_ohm": -0.1}, "extra_series_resistance_ohm")],
+    [
+        ({"n_series": 0}, "n_series"),
+        ({"n_parallel": 1.5}, "n_parallel"),
+        ({"extra_series_resistance_ohm": -0.1}, "extra_series_resistance_ohm"),
+    ],
 )
 def test_pack_validation_names_field(kw, field):
     args = {"cell": NMC, "n_series": 2, "n_parallel": 2} | kw
@@ -519,8 +556,7 @@ def test_current_rises_and_voltage_falls_with_power(which, soc, temp_c, v_rc_fra
     assert np.all(op.feasible)
     assert np.all(np.diff(op.current_a) > 0.0)
     assert np.all(np.diff(op.terminal_v) < 0.0)
-    np.testing.assert_allclose(op.current_a * op.terminal_v, power, rtol=1e-9,
-                               atol=1e-9 * pmax)
+    np.testing.assert_allclose(op.current_a * op.terminal_v, power, rtol=1e-9, atol=1e-9 * pmax)
 
 
 @settings(max_examples=100, deadline=None)
@@ -530,6 +566,7 @@ def test_resistance_falls_with_temperature(soc, t1, t2):
     pack = _PACKS[1]
     lo, hi = sorted((t1, t2))
     assert bt.r0_ohm(pack, soc, hi) <= bt.r0_ohm(pack, soc, lo)
-    for (rh, _), (rl, _) in zip(bt.rc_params(pack, soc, hi), bt.rc_params(pack, soc, lo),
-                                strict=True):
+    for (rh, _), (rl, _) in zip(
+        bt.rc_params(pack, soc, hi), bt.rc_params(pack, soc, lo), strict=True
+    ):
         assert rh <= rl

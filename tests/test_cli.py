@@ -370,8 +370,9 @@ def test_speed_hold_at_zero_field_fails_cleanly_or_saturates(capsys, tmp_path):
 
 def test_run_flags_gas_current_and_field(capsys, tmp_path):
     s = str(scenario(tmp_path))
-    code, text = run(capsys, "run", s, "--out", str(tmp_path / "a.h5"), "--enclosed-volume",
-                     "1 m^3")
+    code, text = run(
+        capsys, "run", s, "--out", str(tmp_path / "a.h5"), "--enclosed-volume", "1 m^3"
+    )
     assert code == 0, text
     flat = " ".join(text.split())  # the summary wraps at the terminal width
     assert "Gas produced:" in flat
@@ -384,8 +385,9 @@ def test_run_flags_gas_current_and_field(capsys, tmp_path):
 
 def test_huge_enclosed_volume_drops_the_gas_flag(capsys, tmp_path):
     s = str(scenario(tmp_path))
-    code, text = run(capsys, "run", s, "--out", str(tmp_path / "a.h5"), "--enclosed-volume",
-                     "1e9 m^3")
+    code, text = run(
+        capsys, "run", s, "--out", str(tmp_path / "a.h5"), "--enclosed-volume", "1e9 m^3"
+    )
     assert code == 0
     flat = " ".join(text.split())
     assert "Gas produced:" in flat and "in an enclosed" not in flat

@@ -65,8 +65,16 @@ def test_galvanic_series_values_and_order():
         assert m.name == name
         assert lo <= m.rest_potential_v_sce <= hi
         assert "galvanic series" in m.source
-    order = ["graphite", "platinum", "stainless_316_passive", "copper", "mild_steel",
-             "aluminium_alloy", "zinc", "magnesium"]
+    order = [
+        "graphite",
+        "platinum",
+        "stainless_316_passive",
+        "copper",
+        "mild_steel",
+        "aluminium_alloy",
+        "zinc",
+        "magnesium",
+    ]
     e = [ec.ELECTRODE_MATERIALS[n].rest_potential_v_sce for n in order]
     assert e == sorted(e, reverse=True)
 

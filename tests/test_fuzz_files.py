@@ -76,7 +76,7 @@ def dumps(data: dict) -> str:
 
 def test_the_writer_round_trips():
     data = {
-        "a": [1, 2.5, "x\"\\\n\x01é", True, {"b": float("inf"), "c": []}],
+        "a": [1, 2.5, 'x"\\\n\x01é', True, {"b": float("inf"), "c": []}],
         "d": {"e": {"f": -3}},
     }
     back = tomllib.loads(dumps(data))
@@ -108,13 +108,70 @@ KEYS = sorted(
     if k.islower() or "_" in k
 )
 UNITS = [
-    "m", "mm", "km", "nmi", "kn", "m/s", "kg", "t", "s", "min", "h", "N", "kN", "W", "kW", "V",
-    "mV", "A", "kA", "ohm", "mohm", "A*h", "kWh", "T", "mT", "degC", "K", "degF", "delta_degC",
-    "m^2", "m^3", "L", "W/K", "kJ/K", "V/(m/s)", "dbar", "", "%", "kg/m", "blorb", "m**", "((",
+    "m",
+    "mm",
+    "km",
+    "nmi",
+    "kn",
+    "m/s",
+    "kg",
+    "t",
+    "s",
+    "min",
+    "h",
+    "N",
+    "kN",
+    "W",
+    "kW",
+    "V",
+    "mV",
+    "A",
+    "kA",
+    "ohm",
+    "mohm",
+    "A*h",
+    "kWh",
+    "T",
+    "mT",
+    "degC",
+    "K",
+    "degF",
+    "delta_degC",
+    "m^2",
+    "m^3",
+    "L",
+    "W/K",
+    "kJ/K",
+    "V/(m/s)",
+    "dbar",
+    "",
+    "%",
+    "kg/m",
+    "blorb",
+    "m**",
+    "((",
 ]
-NAMES = ["pylon", "go", "return", "survey", "nmc_pouch_huria2012", "graphite", "N42SH",
-         "permanent", "superconducting", "submerged-body", "displacement", "table", "ducted",
-         "disk", "goto", "stop", "derate", "hotel", "auto"]
+NAMES = [
+    "pylon",
+    "go",
+    "return",
+    "survey",
+    "nmc_pouch_huria2012",
+    "graphite",
+    "N42SH",
+    "permanent",
+    "superconducting",
+    "submerged-body",
+    "displacement",
+    "table",
+    "ducted",
+    "disk",
+    "goto",
+    "stop",
+    "derate",
+    "hotel",
+    "auto",
+]
 
 _ALPHABET = "abcdefghijklmnopqrstuvwxyz_-.0123456789 []{}=\"'\\/#,*^()%\n\t\x00\x7féµ°Ω€\u2028"
 _text = st.text(alphabet=_ALPHABET, max_size=12)
@@ -246,8 +303,9 @@ def _perturb(data: dict, draw) -> dict:
 
     data = copy.deepcopy(data)
     leaves = [
-        p for p in _paths(data) if p and isinstance(_at(data, p), int | float | str)
-        and not isinstance(_at(data, p), bool)
+        p
+        for p in _paths(data)
+        if p and isinstance(_at(data, p), int | float | str) and not isinstance(_at(data, p), bool)
     ]
     for path in draw(st.lists(st.sampled_from(leaves), min_size=1, max_size=3, unique=True)):
         old = _at(data, path)
@@ -300,8 +358,28 @@ def test_mutated_scenario_files_raise_only_input_error(fuzz_dir, data):
 
 
 _fragments = st.sampled_from(
-    ["[vessel]", "[[thruster]]", "[[leg]]", "[scenario]", "name = ", '"', "'''", "=", "\n",
-     "{", "}", "[", "]", ",", "mass = \"3 kg\"", "extends = ", "#", "\\", "nan", "1e999"]
+    [
+        "[vessel]",
+        "[[thruster]]",
+        "[[leg]]",
+        "[scenario]",
+        "name = ",
+        '"',
+        "'''",
+        "=",
+        "\n",
+        "{",
+        "}",
+        "[",
+        "]",
+        ",",
+        'mass = "3 kg"',
+        "extends = ",
+        "#",
+        "\\",
+        "nan",
+        "1e999",
+    ]
 )
 
 

@@ -238,11 +238,20 @@ def test_breakdown_sums_to_total_and_matches_resistance(model) -> None:
     # Definition of the breakdown: components add up to the total (conservation of force).
     assert isinstance(model, ResistanceModel)
     b = model.breakdown(SPEEDS, RHO_SEA, NU_SEA_15C)
-    parts = (b.friction + b.form + b.wave + b.transom + b.bulb + b.appendage + b.correlation
-             + b.unresolved)
+    parts = (
+        b.friction
+        + b.form
+        + b.wave
+        + b.transom
+        + b.bulb
+        + b.appendage
+        + b.correlation
+        + b.unresolved
+    )
     np.testing.assert_allclose(parts, b.total, rtol=1e-14, atol=0.0)
-    np.testing.assert_allclose(model.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C), b.total,
-                               rtol=1e-13, atol=0.0)
+    np.testing.assert_allclose(
+        model.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C), b.total, rtol=1e-13, atol=0.0
+    )
     # scalar speeds give floats and the same numbers (scalar fast paths)
     for v, total in zip(SPEEDS, b.total, strict=True):
         r = model.resistance_n(float(v), RHO_SEA, NU_SEA_15C)
@@ -259,8 +268,9 @@ def test_resistance_is_odd_and_power_is_r_times_v(model) -> None:
     astern = model.resistance_n(-v, RHO_SEA, NU_SEA_15C)
     np.testing.assert_array_equal(astern, -ahead)
     pe = effective_power_w(model, SPEEDS, RHO_SEA, NU_SEA_15C)
-    np.testing.assert_allclose(pe, model.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C) * SPEEDS,
-                               rtol=1e-15)
+    np.testing.assert_allclose(
+        pe, model.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C) * SPEEDS, rtol=1e-15
+    )
     assert np.all(pe >= 0.0)
 
 
@@ -274,8 +284,9 @@ def test_composite_is_sum_of_parts() -> None:
     assert combo2 == combo
     assert isinstance(combo, CompositeResistance) and len(combo.parts) == 3
     expected = sum(p.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C) for p in (hull, housing, strut))
-    np.testing.assert_allclose(combo.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C), expected,
-                               rtol=1e-14)
+    np.testing.assert_allclose(
+        combo.resistance_n(SPEEDS, RHO_SEA, NU_SEA_15C), expected, rtol=1e-14
+    )
     b = combo.breakdown(SPEEDS, RHO_SEA, NU_SEA_15C)
     np.testing.assert_allclose(
         b.appendage,
@@ -311,8 +322,13 @@ def test_hm_friction_and_correlation_formulas(hm1982: DisplacementHull) -> None:
 
 
 def test_hm_user_overrides() -> None:
-    h = DisplacementHull(**HM_EXAMPLE, given_wetted_area_m2=7000.0, given_form_factor=1.2,
-                         given_half_entrance_angle_deg=15.0, given_correlation_allowance=3e-4)
+    h = DisplacementHull(
+        **HM_EXAMPLE,
+        given_wetted_area_m2=7000.0,
+        given_form_factor=1.2,
+        given_half_entrance_angle_deg=15.0,
+        given_correlation_allowance=3e-4,
+    )
     assert h.wetted_area_m2 == 7000.0 and h.form_factor == 1.2
     assert h.half_entrance_angle_deg == 15.0 and h.correlation_allowance == 3e-4
     b = h.breakdown(10.0, RHO_SEA, NU_SEA_15C)
@@ -390,8 +406,9 @@ def test_tabulated_passes_through_points_and_adds_origin() -> None:
     raw = np.loadtxt(DATA / "hull_demo_tow_curve.csv", delimiter=",", comments="#")
     t = TabulatedResistance(tuple(raw[:, 0]), tuple(raw[:, 1]))
     assert t.speeds_m_s[0] == 0.0 and t.resistances_n[0] == 0.0
-    np.testing.assert_allclose(t.resistance_n(raw[:, 0], RHO_SEA, NU_SEA_15C), raw[:, 1],
-                               rtol=1e-14)
+    np.testing.assert_allclose(
+        t.resistance_n(raw[:, 0], RHO_SEA, NU_SEA_15C), raw[:, 1], rtol=1e-14
+    )
     # monotone data → monotone interpolant (Fritsch & Carlson 1980)
     dense = np.linspace(0.0, t.max_speed_m_s, 5001)
     assert np.all(np.diff(t.resistance_n(dense, RHO_SEA, NU_SEA_15C)) >= 0.0)
@@ -447,8 +464,12 @@ def test_hm_geometry_out_of_range(change: dict, reason: str) -> None:
 
 
 def test_hm_range_check_can_be_waived_and_speed_is_extrapolated() -> None:
-    wide = {**HM_EXAMPLE, "draft_m": 6.0, "displaced_volume_m3": 37500.0 * 0.6,
-            "bulb_centre_height_m": 3.0}
+    wide = {
+        **HM_EXAMPLE,
+        "draft_m": 6.0,
+        "displaced_volume_m3": 37500.0 * 0.6,
+        "bulb_centre_height_m": 3.0,
+    }
     with pytest.raises(ModelRangeError, match="B/T"):
         DisplacementHull(**wide)
     h = DisplacementHull(**wide, check_ranges=False)

@@ -87,8 +87,10 @@ def test_each_bad_file_is_reported_clearly(name, capsys):
         heads = [f"{where}: {key} = ", f"{where}: {key}: "] if key else [f"{where}: "]
         lines = [ln for ln in errors if any(h in ln for h in heads)]
         assert lines, f"no error line for {where}: {key!r} in\n" + "\n".join(errors)
-        line = lines[0] if len(lines) == 1 else next(
-            (ln for ln in lines if case["phrase"] in ln), lines[0]
+        line = (
+            lines[0]
+            if len(lines) == 1
+            else next((ln for ln in lines if case["phrase"] in ln), lines[0])
         )
         assert case["phrase"] in line, line
         if "value" in case:
@@ -191,7 +193,12 @@ until = { duration = "10 min" }
 
 def _vessel(tmp_path, **kw) -> Path:
     values = dict(
-        gap="50 mm", pole="50 mm", length="0.8 m", field="0.75 T", parallel=6, amps="60 A",
+        gap="50 mm",
+        pole="50 mm",
+        length="0.8 m",
+        field="0.75 T",
+        parallel=6,
+        amps="60 A",
         volts="30 V",
     )
     values.update(kw)
@@ -240,7 +247,12 @@ def test_boiling_at_bollard_warns(tmp_path, capsys):
     warns = _warnings(
         capsys,
         _scenario(
-            tmp_path, gap="10 mm", pole="10 mm", length="1 m", field="0.2 T", amps="2 kA",
+            tmp_path,
+            gap="10 mm",
+            pole="10 mm",
+            length="1 m",
+            field="0.2 T",
+            amps="2 kA",
             volts="150 V",
         ),
     )
@@ -289,8 +301,12 @@ def test_schedule_after_the_time_limit_warns(tmp_path, capsys):
 def test_a_following_current_lets_a_drifting_leg_end(tmp_path, capsys):
     legs = '[[leg]]\nname = "drift"\ncurrent = "0 A"\nuntil = { distance = "200 m" }\n'
     p = _scenario(tmp_path, legs=legs)
-    p.write_text(p.read_text().replace('temperature = "15 degC"', 'temperature = "15 degC"\n'
-                                       'current = "0.3 kn"'), encoding="utf-8")
+    p.write_text(
+        p.read_text().replace(
+            'temperature = "15 degC"', 'temperature = "15 degC"\ncurrent = "0.3 kn"'
+        ),
+        encoding="utf-8",
+    )
     assert _warnings(capsys, p) == []
 
 

@@ -183,8 +183,12 @@ def test_unknown_grade_and_bad_geometry_raise():
 
 
 @settings(max_examples=50, deadline=None)
-@given(z1=st.floats(0.0, 1.0), z2=st.floats(0.0, 1.0), a=st.floats(0.005, 0.2),
-       length=st.floats(0.002, 0.1))
+@given(
+    z1=st.floats(0.0, 1.0),
+    z2=st.floats(0.0, 1.0),
+    a=st.floats(0.005, 0.2),
+    length=st.floats(0.002, 0.1),
+)
 def test_on_axis_field_falls_with_distance(z1, z2, a, length):
     lo, hi = sorted((z1, z2))
     if hi - lo > 1e-9:

@@ -115,7 +115,14 @@ def test_water_state_bundles_the_functions():
     assert w.mu_pa_s == sw.viscosity_pa_s(33.0, 12.0)
     assert w.nu_m2_s == pytest.approx(w.mu_pa_s / w.rho_kg_m3, rel=1e-15)
     assert [f.name for f in dataclasses.fields(sw.WaterState)] == [
-        "sp", "t_c", "p_dbar", "sigma_s_m", "dsigma_dt_s_m_k", "rho_kg_m3", "cp_j_kg_k", "mu_pa_s"
+        "sp",
+        "t_c",
+        "p_dbar",
+        "sigma_s_m",
+        "dsigma_dt_s_m_k",
+        "rho_kg_m3",
+        "cp_j_kg_k",
+        "mu_pa_s",
     ]
 
 

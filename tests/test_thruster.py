@@ -25,8 +25,14 @@ from sim.physics.thruster import (
 
 # SP 35, 15 °C, 0 dbar: σ, ρ, c_p from REFERENCES.md (PSS-78 / gsw), μ Sharqawy et al. (2010)
 WATER = WaterState(
-    sp=35.0, t_c=15.0, p_dbar=0.0, sigma_s_m=4.29, dsigma_dt_s_m_k=0.09,
-    rho_kg_m3=1025.98, cp_j_kg_k=3993.0, mu_pa_s=1.22e-3,
+    sp=35.0,
+    t_c=15.0,
+    p_dbar=0.0,
+    sigma_s_m=4.29,
+    dsigma_dt_s_m_k=0.09,
+    rho_kg_m3=1025.98,
+    cp_j_kg_k=3993.0,
+    mu_pa_s=1.22e-3,
 )
 RHO = WATER.rho_kg_m3
 
@@ -327,8 +333,11 @@ def test_scalar_fast_path_matches_vector_path():
 
 def test_results_are_finite_everywhere():
     # no NaN or inf on a mixed grid (zero flow, zero field, reverse, astern, both jet models)
-    for th in (BASE, dataclasses.replace(BASE, jet_model="disk", nozzle_area_ratio=0.7),
-               dataclasses.replace(BASE, b_tesla=0.0)):
+    for th in (
+        BASE,
+        dataclasses.replace(BASE, jet_model="disk", nozzle_area_ratio=0.7),
+        dataclasses.replace(BASE, b_tesla=0.0),
+    ):
         op = grid(th, speeds=np.linspace(-8, 15, 12), volts=np.linspace(-800, 800, 17))
         for f in dataclasses.fields(op):
             assert np.all(np.isfinite(np.asarray(getattr(op, f.name), dtype=float))), f.name
@@ -352,9 +361,16 @@ def test_invalid_inputs_raise():
     with pytest.raises(ModelRangeError):
         operating_point(BASE, WATER, 1.0, voltage_v=1.0, current_a=1.0)
     bad = [
-        {"gap_m": 0.0}, {"height_m": -1.0}, {"length_m": math.nan}, {"n_channels": 0},
-        {"b_tesla": -1.0}, {"nozzle_area_ratio": 1.6}, {"nozzle_area_ratio": 0.0},
-        {"jet_model": "propeller"}, {"chlorine_fraction": 1.5}, {"roughness_m": 0.05},
+        {"gap_m": 0.0},
+        {"height_m": -1.0},
+        {"length_m": math.nan},
+        {"n_channels": 0},
+        {"b_tesla": -1.0},
+        {"nozzle_area_ratio": 1.6},
+        {"nozzle_area_ratio": 0.0},
+        {"jet_model": "propeller"},
+        {"chlorine_fraction": 1.5},
+        {"roughness_m": 0.05},
         {"k_inlet": -0.1},
     ]
     for kw in bad:
@@ -382,6 +398,7 @@ def test_doubling_square_duct_at_same_flow():
     f_s = c_f * 0.5 * RHO * u_s**2 * small.wetted_area_per_channel_m2
     f_b = c_f * 0.5 * RHO * u_b**2 * big.wetted_area_per_channel_m2
     assert f_b == pytest.approx(f_s / 8.0, rel=1e-12)
+
     # the same through the Darcy loss coefficient: wall force = K_f·½ρu²·A, with f = 4 C_F
     def wall_force(th, u):
         k_f = friction_loss_coefficient(
@@ -390,8 +407,9 @@ def test_doubling_square_duct_at_same_flow():
         return k_f * 0.5 * RHO * u**2 * th.area_per_channel_m2
 
     def f(th, u):
-        return darcy_friction_factor(RHO * u * th.hydraulic_diameter_m / WATER.mu_pa_s,
-                                     th.rel_roughness)
+        return darcy_friction_factor(
+            RHO * u * th.hydraulic_diameter_m / WATER.mu_pa_s, th.rel_roughness
+        )
 
     f_ratio = f(big, u_b) / f(small, u_s)
     assert wall_force(big, u_b) / wall_force(small, u_s) == pytest.approx(f_ratio / 8.0, rel=1e-9)

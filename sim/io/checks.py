@@ -148,8 +148,7 @@ def _range_problem(file: str, table: str, fields, exc, data: dict) -> Problem:
         file,
         key,
         value,
-        f"{exc.quantity} = {exc.value!r} is outside the valid range{model}; "
-        f"allowed: {exc.allowed}",
+        f"{exc.quantity} = {exc.value!r} is outside the valid range{model}; allowed: {exc.allowed}",
     )
 
 
@@ -317,8 +316,7 @@ def scenario_problems(
                     file,
                     f"leg[{i}].voltage",
                     _shown(data, f"leg[{i}].voltage", leg.voltage),
-                    "above the drive's maximum voltage; allowed: "
-                    f"≤ {vessel.drive.max_voltage:g} V",
+                    f"above the drive's maximum voltage; allowed: ≤ {vessel.drive.max_voltage:g} V",
                 )
             )
     st, lim = spec.start, spec.limits

@@ -428,9 +428,7 @@ def load_scenario(
         except InputError as exc:
             problems.extend(exc.problems)
     if spec is not None and not problems:
-        problems.extend(
-            scenario_problems(spec, vessel.spec if vessel else None, data, str(path))
-        )
+        problems.extend(scenario_problems(spec, vessel.spec if vessel else None, data, str(path)))
     errors = [p for p in problems if p.severity == "error"]
     if errors:
         raise InputError(errors)

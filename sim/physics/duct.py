@@ -261,7 +261,12 @@ def darcy_friction_factor(re, rel_roughness, aspect_ratio=1.0):
 
 
 def friction_loss_coefficient(
-    velocity_m_s, length_m, hydraulic_diameter_m, rho_kg_m3, mu_pa_s, rel_roughness,
+    velocity_m_s,
+    length_m,
+    hydraulic_diameter_m,
+    rho_kg_m3,
+    mu_pa_s,
+    rel_roughness,
     aspect_ratio=1.0,
 ):
     """Wall-friction loss coefficient K_f = f·L/D_h of a straight duct.
@@ -305,7 +310,12 @@ def friction_loss_coefficient(
 
 
 def friction_pressure_drop_pa(
-    velocity_m_s, length_m, hydraulic_diameter_m, rho_kg_m3, mu_pa_s, rel_roughness,
+    velocity_m_s,
+    length_m,
+    hydraulic_diameter_m,
+    rho_kg_m3,
+    mu_pa_s,
+    rel_roughness,
     aspect_ratio=1.0,
 ):
     """Wall-friction pressure drop of a straight duct, finite at zero flow.
@@ -385,8 +395,8 @@ def friction_terms_scalar(re: float, rel_roughness: float, aspect_ratio: float):
     t = (re - RE_LAMINAR_MAX) / (RE_TURBULENT_MIN - RE_LAMINAR_MAX)
     f_l = c_lam / re
     f = (1.0 - t) * f_l + t * f_t
-    dfdln = (1.0 - t) * (-f_l) + t * f_t * m_t + re * (f_t - f_l) / (
-        RE_TURBULENT_MIN - RE_LAMINAR_MAX
+    dfdln = (
+        (1.0 - t) * (-f_l) + t * f_t * m_t + re * (f_t - f_l) / (RE_TURBULENT_MIN - RE_LAMINAR_MAX)
     )
     m = dfdln / f
     return f * re, (1.0 + m) * f, m

@@ -589,8 +589,10 @@ class DisplacementHull:
         if self.block_coefficient is not None:
             if not abs(self.block_coefficient / cb - 1.0) <= 0.01:
                 raise ModelRangeError(
-                    "block_coefficient", self.block_coefficient,
-                    f"within 1 % of volume/(L B T) = {cb:.4f}", _HM,
+                    "block_coefficient",
+                    self.block_coefficient,
+                    f"within 1 % of volume/(L B T) = {cb:.4f}",
+                    _HM,
                 )
             cb = float(self.block_coefficient)
         _within("block coefficient Cb", cb, 0.2, 0.99, _HM)
@@ -598,8 +600,10 @@ class DisplacementHull:
         if self.prismatic_coefficient is not None:
             if not abs(self.prismatic_coefficient / cp - 1.0) <= 0.01:
                 raise ModelRangeError(
-                    "prismatic_coefficient", self.prismatic_coefficient,
-                    f"within 1 % of Cb/Cm = {cp:.4f}", _HM,
+                    "prismatic_coefficient",
+                    self.prismatic_coefficient,
+                    f"within 1 % of Cb/Cm = {cp:.4f}",
+                    _HM,
                 )
             cp = float(self.prismatic_coefficient)
         if self.check_ranges:
@@ -618,8 +622,10 @@ class DisplacementHull:
             _within("bulb_centre_height_m", hb, 0.0, 0.6 * tf, _HM, " m (0.6 T_F)")
             if not tf - hb - 0.25 * math.sqrt(abt) > 0.0:
                 raise ModelRangeError(
-                    "bulb immersion T_F − h_B − 0.25√A_BT", tf - hb - 0.25 * math.sqrt(abt),
-                    "> 0 m", _HM,
+                    "bulb immersion T_F − h_B − 0.25√A_BT",
+                    tf - hb - 0.25 * math.sqrt(abt),
+                    "> 0 m",
+                    _HM,
                 )
         if not self.appendage_area_m2 >= 0.0:
             raise ModelRangeError("appendage_area_m2", self.appendage_area_m2, ">= 0 m²", _HM)
@@ -634,9 +640,13 @@ class DisplacementHull:
             raise ModelRangeError("length of run L_R", lr, "> 0 m", _HM)
         # wetted area
         if self.given_wetted_area_m2 is None:
-            s = L * (2.0 * T + B) * math.sqrt(cm) * (
-                0.4530 + 0.4425 * cb - 0.2862 * cm - 0.003467 * B / T + 0.3696 * cwp
-            ) + 2.38 * abt / cb
+            s = (
+                L
+                * (2.0 * T + B)
+                * math.sqrt(cm)
+                * (0.4530 + 0.4425 * cb - 0.2862 * cm - 0.003467 * B / T + 0.3696 * cwp)
+                + 2.38 * abt / cb
+            )
         else:
             _positive("given_wetted_area_m2", self.given_wetted_area_m2, _HM)
             s = float(self.given_wetted_area_m2)
@@ -653,16 +663,20 @@ class DisplacementHull:
             base = 1.0 - cp + 0.0225 * lcb
             if not base > 0.0:
                 raise ModelRangeError("1 − Cp + 0.0225 lcb", base, "> 0", _HM)
-            k1 = c13 * (
-                0.93
-                + c12 * (B / lr) ** 0.92497 * (0.95 - cp) ** -0.521448 * base**0.6906
-            )
+            k1 = c13 * (0.93 + c12 * (B / lr) ** 0.92497 * (0.95 - cp) ** -0.521448 * base**0.6906)
         else:
             c12 = 1.0 + 0.011 * self.stern_coefficient  # c14 of the 1984 paper
             c13 = 1.0
-            k1 = 0.93 + 0.487118 * c12 * (B / L) ** 1.06806 * (T / L) ** 0.46106 * (
-                L / lr
-            ) ** 0.121563 * (L**3 / vol) ** 0.36486 * (1.0 - cp) ** -0.604247
+            k1 = (
+                0.93
+                + 0.487118
+                * c12
+                * (B / L) ** 1.06806
+                * (T / L) ** 0.46106
+                * (L / lr) ** 0.121563
+                * (L**3 / vol) ** 0.36486
+                * (1.0 - cp) ** -0.604247
+            )
         if self.given_form_factor is not None:
             _within("given_form_factor", self.given_form_factor, 1.0, 2.0, _HM)
             k1 = float(self.given_form_factor)
@@ -740,11 +754,32 @@ class DisplacementHull:
 
         sqrt_gl = math.sqrt(g * L)
         k = _HMCoefficients(
-            cb=cb, cp=cp, lr_m=lr, c12_or_c14=c12, c13=c13, ie_deg=ie, c1=c1, c2=c2, c3=c3,
-            c5=c5, c7=c7, c15=c15, c16=c16, c17=c17, m1=m1, m3=m3, lam=lam, pb=pb,
-            bulb_head_m2_s2=bulb_head, bulb_coef_m3_s2=bulb_coef, transom_speed_m_s=transom_speed,
-            sqrt_gl_m_s=sqrt_gl, wave_base_m4_s2=wave_base, rwa04_per_rho=0.0,
-            rwb055_per_rho=0.0, ca=ca,
+            cb=cb,
+            cp=cp,
+            lr_m=lr,
+            c12_or_c14=c12,
+            c13=c13,
+            ie_deg=ie,
+            c1=c1,
+            c2=c2,
+            c3=c3,
+            c5=c5,
+            c7=c7,
+            c15=c15,
+            c16=c16,
+            c17=c17,
+            m1=m1,
+            m3=m3,
+            lam=lam,
+            pb=pb,
+            bulb_head_m2_s2=bulb_head,
+            bulb_coef_m3_s2=bulb_coef,
+            transom_speed_m_s=transom_speed,
+            sqrt_gl_m_s=sqrt_gl,
+            wave_base_m4_s2=wave_base,
+            rwa04_per_rho=0.0,
+            rwb055_per_rho=0.0,
+            ca=ca,
         )
         object.__setattr__(self, "_k", k)
         if self.revision == "1984":
@@ -776,11 +811,27 @@ class DisplacementHull:
         c7, c15, c16, c17, m1, m3, lambda, PB, CA, S, 1+k1."""
         k = self._k
         return {
-            "Cb": k.cb, "Cp": k.cp, "L_R": k.lr_m,
-            ("c12" if self.revision == "1982" else "c14"): k.c12_or_c14, "c13": k.c13,
-            "iE": k.ie_deg, "c1": k.c1, "c2": k.c2, "c3": k.c3, "c5": k.c5, "c7": k.c7,
-            "c15": k.c15, "c16": k.c16, "c17": k.c17, "m1": k.m1, "m3": k.m3, "lambda": k.lam,
-            "PB": k.pb, "CA": k.ca, "S": self.wetted_area_m2, "1+k1": self.form_factor,
+            "Cb": k.cb,
+            "Cp": k.cp,
+            "L_R": k.lr_m,
+            ("c12" if self.revision == "1982" else "c14"): k.c12_or_c14,
+            "c13": k.c13,
+            "iE": k.ie_deg,
+            "c1": k.c1,
+            "c2": k.c2,
+            "c3": k.c3,
+            "c5": k.c5,
+            "c7": k.c7,
+            "c15": k.c15,
+            "c16": k.c16,
+            "c17": k.c17,
+            "m1": k.m1,
+            "m3": k.m3,
+            "lambda": k.lam,
+            "PB": k.pb,
+            "CA": k.ca,
+            "S": self.wetted_area_m2,
+            "1+k1": self.form_factor,
         }
 
     def check_speed(self, speed_m_s: ArrayLike) -> None:
@@ -794,7 +845,9 @@ class DisplacementHull:
         fn = np.abs(np.asarray(speed_m_s, dtype=float)) / self._k.sqrt_gl_m_s
         if np.any(fn > self.max_froude_number):
             raise ModelRangeError(
-                "Froude number", float(np.max(fn)), f"<= {self.max_froude_number}",
+                "Froude number",
+                float(np.max(fn)),
+                f"<= {self.max_froude_number}",
                 f"{_HM} {self.revision}",
             )
 
@@ -805,14 +858,18 @@ class DisplacementHull:
 
     def _wave_a_1984(self, fn: np.ndarray) -> np.ndarray:
         k = self._k
-        return k.c1 * k.wave_base_m4_s2 * np.exp(
-            k.m1 * fn**-0.9 + self._m4(fn) * np.cos(k.lam * fn**-2)
+        return (
+            k.c1
+            * k.wave_base_m4_s2
+            * np.exp(k.m1 * fn**-0.9 + self._m4(fn) * np.cos(k.lam * fn**-2))
         )
 
     def _wave_b_1984(self, fn: np.ndarray) -> np.ndarray:
         k = self._k
-        return k.c17 * k.wave_base_m4_s2 * np.exp(
-            k.m3 * fn**-0.9 + self._m4(fn) * np.cos(k.lam * fn**-2)
+        return (
+            k.c17
+            * k.wave_base_m4_s2
+            * np.exp(k.m3 * fn**-0.9 + self._m4(fn) * np.cos(k.lam * fn**-2))
         )
 
     def _wave_per_rho(self, fn: np.ndarray) -> np.ndarray:
@@ -903,8 +960,10 @@ class DisplacementHull:
             return 0.0
         if self.revision == "1982":
             m2 = k.c15 * k.cp * k.cp * math.exp(-0.1 / (fn * fn))
-            return k.c1 * k.wave_base_m4_s2 * math.exp(
-                k.m1 * fn**-0.9 + m2 * math.cos(k.lam / (fn * fn))
+            return (
+                k.c1
+                * k.wave_base_m4_s2
+                * math.exp(k.m1 * fn**-0.9 + m2 * math.cos(k.lam / (fn * fn)))
             )
         if 0.4 < fn < 0.55:
             return k.rwa04_per_rho + (fn - 0.4) / 0.15 * (k.rwb055_per_rho - k.rwa04_per_rho)
@@ -921,9 +980,13 @@ class DisplacementHull:
         q = 0.5 * rho * va * va
         re = max(va * self.length_wl_m / nu, REYNOLDS_NUMBER_FLOOR)
         cf = 0.075 / (math.log10(re) - 2.0) ** 2
-        total = q * cf * (
-            self.wetted_area_m2 * self.form_factor
-            + self.appendage_area_m2 * self.appendage_form_factor
+        total = (
+            q
+            * cf
+            * (
+                self.wetted_area_m2 * self.form_factor
+                + self.appendage_area_m2 * self.appendage_form_factor
+            )
         )
         total += q * self.wetted_area_m2 * k.ca
         total += rho * self._wave_per_rho_scalar(va / k.sqrt_gl_m_s)
@@ -1455,9 +1518,7 @@ def prolate_spheroid_surge_added_mass_coefficient(length_m: float, diameter_m: f
     return alpha0 / (2.0 - alpha0)
 
 
-def surge_added_mass_kg(
-    displaced_volume_m3: float, rho_kg_m3: float, coefficient: float
-) -> float:
+def surge_added_mass_kg(displaced_volume_m3: float, rho_kg_m3: float, coefficient: float) -> float:
     """Added mass in surge [kg].
 
     Parameters

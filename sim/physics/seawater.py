@@ -162,9 +162,7 @@ def _sigma_unchecked(sp: ArrayLike, t_c: ArrayLike, p_dbar: ArrayLike) -> np.nda
 # --------------------------------------------------------------------------------------------
 
 
-def conductivity_s_m(
-    sp: ArrayLike, t_c: ArrayLike, p_dbar: ArrayLike = 0.0
-) -> float | np.ndarray:
+def conductivity_s_m(sp: ArrayLike, t_c: ArrayLike, p_dbar: ArrayLike = 0.0) -> float | np.ndarray:
     """Electrical conductivity of seawater from practical salinity (PSS-78).
 
     Parameters

@@ -245,8 +245,10 @@ class DuctThruster:
             raise ModelRangeError("roughness_m", self.roughness_m, "≥ 0 m", _MODEL)
         if self.roughness_m / self.hydraulic_diameter_m > REL_ROUGHNESS_MAX:
             raise ModelRangeError(
-                "roughness_m / D_h", self.roughness_m / self.hydraulic_diameter_m,
-                f"≤ {REL_ROUGHNESS_MAX}", _MODEL,
+                "roughness_m / D_h",
+                self.roughness_m / self.hydraulic_diameter_m,
+                f"≤ {REL_ROUGHNESS_MAX}",
+                _MODEL,
             )
         for name in ("k_inlet", "k_nozzle", "electrode_drop_v"):
             v = getattr(self, name)
@@ -420,8 +422,28 @@ class _Consts:
     """Per-call constants of thruster and water (avoids recomputing properties)."""
 
     __slots__ = (
-        "alpha", "area", "b", "beta", "cp", "d_h", "disk", "dt_cap", "eps", "gap", "h", "k_in",
-        "k_noz", "length", "mu", "n", "r", "rho", "sig_cap", "sig_in", "vd", "wall",
+        "alpha",
+        "area",
+        "b",
+        "beta",
+        "cp",
+        "d_h",
+        "disk",
+        "dt_cap",
+        "eps",
+        "gap",
+        "h",
+        "k_in",
+        "k_noz",
+        "length",
+        "mu",
+        "n",
+        "r",
+        "rho",
+        "sig_cap",
+        "sig_in",
+        "vd",
+        "wall",
     )
 
     def __init__(self, th: DuctThruster, w: WaterState) -> None:
@@ -579,8 +601,10 @@ def _bracket_solve(k: _Consts, v0, e_s, dpl, thermal, u_guess):
             break
     else:
         raise ModelRangeError(
-            "duct-flow bisection", f"{v0.size} point(s) unconverged",
-            f"convergence to {REL_TOL} relative within {MAX_BISECT} steps", _MODEL,
+            "duct-flow bisection",
+            f"{v0.size} point(s) unconverged",
+            f"convergence to {REL_TOL} relative within {MAX_BISECT} steps",
+            _MODEL,
         )
     return 0.5 * (lo + hi), br
 
@@ -627,14 +651,23 @@ def _iterate(k: _Consts, v0, *, e_s=None, dpl=None, thermal=True):
     chk = np.flatnonzero(done)
     if chk.size:
         bad = ~_residual_ok(
-            k, v0[chk], u[chk], disk[chk], None if e_s is None else e_s[chk],
-            None if dpl is None else dpl[chk], thermal,
+            k,
+            v0[chk],
+            u[chk],
+            disk[chk],
+            None if e_s is None else e_s[chk],
+            None if dpl is None else dpl[chk],
+            thermal,
         )
         act = np.union1d(act, chk[bad])
     if act.size:
         ub, db = _bracket_solve(
-            k, v0[act], None if e_s is None else e_s[act], None if dpl is None else dpl[act],
-            thermal, u[act],
+            k,
+            v0[act],
+            None if e_s is None else e_s[act],
+            None if dpl is None else dpl[act],
+            thermal,
+            u[act],
         )
         u[act] = ub
         disk[act] = db
@@ -904,8 +937,10 @@ def _bracket_scalar(k: _Consts, v0: float, e_s, dpl: float, thermal: bool, u_gue
         if hi - lo <= REL_TOL * abs(0.5 * (lo + hi)) + ABS_TOL_M_S:
             return 0.5 * (lo + hi), br
     raise ModelRangeError(
-        "duct-flow bisection", f"unconverged at V0 = {v0!r} m/s",
-        f"convergence to {REL_TOL} relative within {MAX_BISECT} steps", _MODEL,
+        "duct-flow bisection",
+        f"unconverged at V0 = {v0!r} m/s",
+        f"convergence to {REL_TOL} relative within {MAX_BISECT} steps",
+        _MODEL,
     )
 
 
@@ -932,8 +967,10 @@ def _iterate_scalar(k: _Consts, v0: float, e_s: float | None, dpl: float, therma
         done = False
     if done:
         res = _resid_scalar(k, v0, u, disk, e_s, dpl, thermal)
-        dlv = dpl if e_s is None else (
-            _sigma_voltage_scalar(k, e_s, u, thermal) * (e_s - u * k.b) * k.b * k.length
+        dlv = (
+            dpl
+            if e_s is None
+            else (_sigma_voltage_scalar(k, e_s, u, thermal) * (e_s - u * k.b) * k.b * k.length)
         )
         done = abs(res) <= RESID_TOL * (abs(dlv) + 0.5 * k.rho * (v0 * v0 + u * u) + 1e-300)
     if not done:
@@ -1130,7 +1167,18 @@ def scalar_point(
     ai = abs(current)
     h2 = ai / (2.0 * FARADAY_C_MOL)
     return ScalarPoint(
-        sv * thrust, sv * current, sv * volt, sv * u, p_el, joule, electrode, friction, wake,
-        flow_work, d_t, h2, chlorine_fraction * h2,
+        sv * thrust,
+        sv * current,
+        sv * volt,
+        sv * u,
+        p_el,
+        joule,
+        electrode,
+        friction,
+        wake,
+        flow_work,
+        d_t,
+        h2,
+        chlorine_fraction * h2,
         (1.0 - chlorine_fraction) * ai / (4.0 * FARADAY_C_MOL),
     )
