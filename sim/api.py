@@ -20,6 +20,7 @@ from sim.engine.mission import (
     channel_specs,
 )
 from sim.engine.plant import Plant, build_plant
+from sim.engine.spec import Water
 from sim.engine.steady import SteadyPoint, steady_at_speed
 from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
 from sim.io.log import RunLogWriter, incomplete_path_for, read_log
@@ -85,7 +86,7 @@ class _LogObserver(RunObserver):
 
 
 def plant_for(scenario: LoadedScenario) -> Plant:
-    return build_plant(scenario.vessel.spec, scenario.spec.water)
+    return build_plant(scenario.vessel.vessel_spec, scenario.water)
 
 
 def run_scenario(
@@ -128,7 +129,7 @@ def run_scenario(
     """
     loaded = scenario if isinstance(scenario, LoadedScenario) else load_scenario(scenario)
     plant = plant_for(loaded)
-    runner = MissionRunner(plant, loaded.spec, sample_s=sample_s, observer=None)
+    runner = MissionRunner(plant, loaded.mission_spec, sample_s=sample_s, observer=None)
     writer = None
     log_path = None
     if write_log:
@@ -193,12 +194,9 @@ def operating_table(
     soc: float = 1.0,
 ) -> list[SteadyPoint]:
     """Steady operating points of a vessel file over a list of speeds through water."""
-    from sim.io.schema import WaterSpec
-
     v = load_vessel(vessel)
     plant = build_plant(
-        v.spec,
-        WaterSpec(salinity=salinity, temperature=f"{temperature_c} degC", depth=f"{depth_m} m"),
+        v.vessel_spec, Water(salinity=salinity, temperature_c=temperature_c, depth_m=depth_m)
     )
     out = []
     for s in speeds_m_s:

@@ -337,10 +337,10 @@ def cmd_steady(args) -> int:
     vessel = api.load_vessel(args.vessel)
     _print_problems(vessel.warnings, console)
     from sim.engine.plant import build_plant
+    from sim.engine.spec import Water
     from sim.engine.steady import steady_at_speed
-    from sim.io.schema import WaterSpec
 
-    plant = build_plant(vessel.spec, WaterSpec(salinity=args.salinity, temperature=f"{temp} degC"))
+    plant = build_plant(vessel.vessel_spec, Water(salinity=args.salinity, temperature_c=temp))
     w = plant.water
     t = Table(
         title=f"{vessel.spec.vessel.name}: steady operating points in water of "

@@ -10,14 +10,14 @@ from sim import api
 from sim.analysis import curves as cv
 from sim.engine.model import Control
 from sim.engine.plant import build_plant
+from sim.engine.spec import Water
 from sim.engine.steady import steady_speed_for
-from sim.io.schema import WaterSpec
 
 
 @pytest.fixture(scope="module")
 def plant():
     v = api.load_vessel(VESSELS / "glasswort-drone.toml")
-    return build_plant(v.spec, WaterSpec(salinity=35.0, temperature="15 degC"))
+    return build_plant(v.vessel_spec, Water(salinity=35.0, temperature_c=15.0))
 
 
 def test_overall_efficiency_is_electrical_times_propulsive(plant):

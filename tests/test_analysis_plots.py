@@ -19,8 +19,8 @@ from sim.analysis.report import report_html, write_report
 from sim.analysis.units import METRIC, NAUTICAL
 from sim.cli import CAUTIONS, main
 from sim.engine.plant import build_plant
+from sim.engine.spec import Water
 from sim.io.log import read_log
-from sim.io.schema import WaterSpec
 
 LEGS = """
 [[leg]]
@@ -59,7 +59,7 @@ def comparison(tmp_path_factory):
 @pytest.fixture(scope="module")
 def plant():
     v = api.load_vessel(VESSELS / "glasswort-drone.toml")
-    return build_plant(v.spec, WaterSpec(salinity=35.0, temperature="15 degC"))
+    return build_plant(v.vessel_spec, Water(salinity=35.0, temperature_c=15.0))
 
 
 def _labels(ax) -> list[str]:

@@ -15,18 +15,17 @@ from sim import api
 from sim.analysis import reach
 from sim.analysis.variants import apply_settings, render_toml, variant_vessel_data
 from sim.engine.plant import build_plant
+from sim.engine.spec import Water
 from sim.io.files import load_scenario
-from sim.io.schema import WaterSpec
 from sim.physics import battery as bat
 
 
 def _plant(water=None, **battery):
     v = api.load_vessel(VESSELS / "glasswort-drone.toml")
+    spec = v.vessel_spec
     if battery:
-        spec = v.spec.model_copy(update={"battery": v.spec.battery.model_copy(update=battery)})
-    else:
-        spec = v.spec
-    return build_plant(spec, water or WaterSpec(salinity=35.0, temperature="15 degC"))
+        spec = dataclasses.replace(spec, battery=dataclasses.replace(spec.battery, **battery))
+    return build_plant(spec, water or Water(salinity=35.0, temperature_c=15.0))
 
 
 def _small_vessel(tmp_path, *settings) -> str:
@@ -229,7 +228,7 @@ def test_fresher_water_gives_a_shorter_best_range():
     # Joule loss (J²/σ) and the range shrinks (the "fresher water, shorter range").
     ranges = []
     for sp in (35.0, 20.0, 8.0):
-        plant = _plant(WaterSpec(salinity=sp, temperature="15 degC"))
+        plant = _plant(Water(salinity=sp, temperature_c=15.0))
         c = reach.range_curve(plant, np.geomspace(0.08, 0.4, 7), soc=0.3, soc_min=0.1, refine=False)
         ranges.append(c.best_range.range_m)
     assert ranges[0] > ranges[1] > ranges[2]

@@ -14,6 +14,7 @@ prints with rich:
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import os
 import sys
@@ -109,16 +110,18 @@ def _soc(value: float | None, what: str) -> float | None:
 
 
 def _water(text: str):
-    """``"35,15 degC"`` → WaterSpec (salinity, temperature)."""
+    """``"35,15 degC"`` → the engine's Water (salinity, temperature), checked as a file's
+    ``[water]`` table is."""
     from pydantic import ValidationError
 
     from sim.io.schema import WaterSpec
+    from sim.io.seam import water
 
     sal, sep, temp = text.partition(",")
     try:
         if not sep:
             raise ValueError
-        return WaterSpec(salinity=float(sal), temperature=temp.strip())
+        return water(WaterSpec(salinity=float(sal), temperature=temp.strip()))
     except (ValueError, ValidationError) as exc:
         detail = f" ({exc.errors()[0]['msg']})" if isinstance(exc, ValidationError) else ""
         raise _fail(
@@ -302,8 +305,8 @@ def cmd_range_curve(args) -> int:
     curves, at_points = [], []
     for w in waters:
         if current:
-            w = w.model_copy(update={"current": current})
-        plant = build_plant(vessel.spec, w)
+            w = dataclasses.replace(w, current_m_s=current)
+        plant = build_plant(vessel.vessel_spec, w)
         c = range_curve(plant, speeds, soc=soc, soc_min=soc_min, points=args.points)
         curves.append(c)
         at_points.append(range_at_speed(plant, at, soc=soc, soc_min=soc_min) if at else None)
@@ -379,7 +382,7 @@ def cmd_thruster_curves(args) -> int:
     console = _console()
     u = output_units(args.units)
     vessel = _load_vessel(args.vessel, console)
-    plant = build_plant(vessel.spec, _water(args.water))
+    plant = build_plant(vessel.vessel_spec, _water(args.water))
     try:
         k = cv.thruster_index(plant, args.thruster)
     except ValueError as exc:

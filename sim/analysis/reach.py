@@ -22,7 +22,6 @@ held.
 from __future__ import annotations
 
 import math
-import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -31,10 +30,11 @@ from scipy.integrate import solve_ivp
 from scipy.optimize import minimize_scalar
 
 from sim.engine.model import Control, VesselModel
-from sim.engine.plant import Plant, build_plant
+from sim.engine.plant import Plant
+from sim.engine.spec import LimitsSpec
 from sim.engine.steady import SteadyError, SteadyPoint, steady_at_speed, steady_speed_for
 from sim.io.log import RunLog, read_log
-from sim.io.schema import LimitsSpec
+from sim.io.provenance import plant_from_provenance
 from sim.physics import battery as bat
 from sim.physics.errors import ModelRangeError
 
@@ -634,47 +634,14 @@ class LogRange:
 
 
 def plant_from_log(log: RunLog) -> tuple[Plant, LimitsSpec, list[str]]:
-    """Rebuild the plant and the limits a run was flown with, from the log's provenance.
-
-    The vessel comes from the ``vessel_text`` attribute when it is a whole vessel file, else
-    (a file that ``extends`` another) from ``vessel_path`` on disk, which is noted. Water and
-    limits come from ``scenario_text``.
+    """Rebuild the plant and the limits a run was flown with, from the log's provenance
+    (:func:`sim.io.provenance.plant_from_provenance`).
 
     Returns
     -------
     (plant, limits, notes)
     """
-    from sim.io.files import InputError, Problem, load_vessel, validate_vessel_data
-    from sim.io.schema import WaterSpec
-
-    notes: list[str] = []
-    a = log.attrs
-    where = str(log.path)
-    try:
-        sc = tomllib.loads(str(a.get("scenario_text", "")))
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError([Problem(where, "scenario_text", "…", f"not valid TOML: {exc}")]) from None
-    vpath = str(a.get("vessel_path", ""))
-    vdata = None
-    try:
-        vdata = tomllib.loads(str(a.get("vessel_text", "")))
-    except tomllib.TOMLDecodeError:
-        vdata = None
-    if vdata is not None and "extends" not in vdata and "vessel" in vdata:
-        spec = validate_vessel_data(vdata, f"{where} (vessel_text)")
-    else:
-        spec = load_vessel(vpath).spec
-        notes.append(
-            f"vessel rebuilt from {vpath} as it is on disk now (the log holds an 'extends' chain)"
-        )
-    try:
-        water = WaterSpec.model_validate(sc.get("water", {}))
-        limits = LimitsSpec.model_validate(sc.get("limits", {}))
-    except Exception as exc:  # pydantic ValidationError
-        raise InputError(
-            [Problem(where, "scenario_text", "…", f"invalid water/limits: {exc}")]
-        ) from None
-    return build_plant(spec, water), limits, notes
+    return plant_from_provenance(log)
 
 
 class LogMismatchError(ValueError):
@@ -844,7 +811,7 @@ def range_from_log(
     plant, limits, notes = plant_from_log(log)
     check_log_capacity(log, plant)
     soc_min = float(limits.state_of_charge_min)
-    temp_max = float(limits.battery_temperature_max)
+    temp_max = float(limits.battery_temperature_max_c)
     legs = _leg_uses(log)
     soc = float(s["state_of_charge"][-1])
     temp = float(s["battery_temperature_c"][-1])

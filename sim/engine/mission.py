@@ -20,6 +20,16 @@ import numpy as np
 import simpy
 from scipy.integrate import solve_ivp
 
+from sim.engine.conditions import (
+    BatteryTemperatureAbove,
+    CellVoltageBelow,
+    Condition,
+    DuctTemperatureRiseAbove,
+    MagnetGradeLimit,
+    MagnetTemperatureAbove,
+    PackHeadroomExhausted,
+    SocBelow,
+)
 from sim.engine.model import (
     ACC_NAMES,
     I_RC1,
@@ -34,8 +44,8 @@ from sim.engine.model import (
     initial_state,
 )
 from sim.engine.plant import Plant
+from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
-from sim.io.schema import Conditions, LegSpec, ScenarioFile, TriggerSpec
 
 __all__ = ["MissionRunner", "RunObserver", "RunResult", "SolverFailure"]
 
@@ -187,29 +197,14 @@ class RunResult:
     rhs_calls: int
 
 
-@dataclass
-class _Cond:
+@dataclass(frozen=True)
+class _Armed:
+    """A condition watched during a segment, and what its event means."""
+
     kind: str  # 'leg', 'trigger', 'stop'
-    name: str  # condition key
-    threshold: float
+    cond: Condition
     owner: int  # leg index / trigger index / -1
     label: str
-    direction: int = 0
-
-
-_DIRECTION = {
-    "distance": 1,
-    "total_distance_above": 1,
-    "speed_above": 1,
-    "speed_below": -1,
-    "soc_below": -1,
-    "cell_voltage_below": -1,
-    "duct_temperature_rise_above": 1,
-    "battery_temperature_above": 1,
-    "magnet_temperature_above": 1,
-    "time_after": 1,
-    "pack_headroom": -1,
-}
 
 
 @dataclass
@@ -232,7 +227,7 @@ class MissionRunner:
     def __init__(
         self,
         plant: Plant,
-        scenario: ScenarioFile,
+        mission: MissionSpec,
         *,
         sample_s: float | None = None,
         observer: RunObserver | None = None,
@@ -240,16 +235,16 @@ class MissionRunner:
         method: str | None = None,
     ) -> None:
         self.plant = plant
-        self.sc = scenario
+        self.mission = mission
         self.model = VesselModel(plant)
-        self.sample_s = float(sample_s or scenario.output.sample)
+        self.sample_s = float(sample_s or mission.sample_s)
         self.obs = observer or RunObserver()
-        self.method = method or scenario.solver.method
-        self.rtol = scenario.solver.rtol
-        self.max_step = scenario.solver.max_step
-        self.time_limit = scenario.limits.time
-        self.legs: list[LegSpec] = list(scenario.leg)
-        self.triggers: list[TriggerSpec] = list(scenario.trigger)
+        self.method = method or mission.solver.method
+        self.rtol = mission.solver.rtol
+        self.max_step = mission.solver.max_step_s
+        self.time_limit = mission.limits.time_s
+        self.legs: list[LegSpec] = list(mission.legs)
+        self.triggers: list[TriggerSpec] = list(mission.triggers)
         self.leg_names = {leg.name: i for i, leg in enumerate(self.legs)}
         self._events: list[dict] = []
         self._legs_out: list[dict] = []
@@ -268,124 +263,65 @@ class MissionRunner:
         self.atol[lay.acc["charge_c"]] = 1e-4
 
     # ------------------------------------------------------------------ conditions
-    def _value(self, c: _Cond, t: float, y: np.ndarray) -> float:
-        """Signed distance of a condition from its threshold; it holds when the value has
-        crossed zero in the condition's direction."""
-        m = self.m
-        n = c.name
-        if n == "distance":
-            return float(y[I_XG]) - m.leg_x0 - c.threshold
-        if n == "total_distance_above":
-            return float(y[I_XG]) - c.threshold
-        if n in ("speed_above", "speed_below"):
-            return float(y[I_V]) - c.threshold
-        if n == "soc_below":
-            return float(y[I_SOC]) - c.threshold
-        if n == "battery_temperature_above":
-            return float(y[I_TB]) - c.threshold
-        if n == "time_after":
-            return t - c.threshold
-        lay = self.model.lay
-        if n == "magnet_temperature_above":
-            return max(
-                float(v) - lim
-                for v, lim in zip(
-                    y[lay.i_mag : lay.i_mag + lay.n_thr], self._mag_limits(c), strict=True
-                )
-            )
-        s = self.model.evaluate(t, y)
-        if n == "cell_voltage_below":
-            return s.cell_voltage_v - c.threshold
-        if n == "duct_temperature_rise_above":
-            return max(s.duct_rise_k) - c.threshold
-        if n == "pack_headroom":
-            return s.pack_headroom_w
-        raise KeyError(n)
+    def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
+        """Signed distance of a condition from its threshold."""
+        return c.cond(t, y, self.model, self.m.leg_x0)
 
-    def _mag_limits(self, c: _Cond) -> list[float]:
-        if c.kind == "stop" and math.isinf(c.threshold):
-            return [u.magnet_max_c for u in self.plant.thrusters]
-        return [c.threshold] * len(self.plant.thrusters)
+    def _holds(self, c: _Armed, t: float, y: np.ndarray) -> bool:
+        return c.cond.holds(t, y, self.model, self.m.leg_x0)
 
-    def _holds(self, c: _Cond, t: float, y: np.ndarray) -> bool:
-        v = self._value(c, t, y)
-        return v >= 0 if c.direction > 0 else v <= 0
-
-    def _conditions_from(self, conds: Conditions, kind: str, owner: int, label: str):
-        out = []
-        for name, thr in conds.given().items():
-            if name == "duration":
-                continue
-            out.append(_Cond(kind, name, float(thr), owner, label, _DIRECTION[name]))
-        return out
-
-    def _stop_conditions(self) -> list[_Cond]:
-        lim = self.sc.limits
+    def _stop_conditions(self) -> list[_Armed]:
+        lim = self.mission.limits
         cell = self.plant.pack.cell
         out = [
-            _Cond(
+            _Armed(
                 "stop",
-                "soc_below",
-                lim.state_of_charge_min,
+                SocBelow(lim.state_of_charge_min),
                 -1,
                 "pack empty (state of charge at its minimum)",
-                -1,
             ),
-            _Cond("stop", "cell_voltage_below", cell.v_min, -1, "cell under-voltage", -1),
-            _Cond(
-                "stop", "pack_headroom", 0.0, -1, "the pack cannot deliver the demanded power", -1
+            _Armed("stop", CellVoltageBelow(cell.v_min), -1, "cell under-voltage"),
+            _Armed(
+                "stop", PackHeadroomExhausted(), -1, "the pack cannot deliver the demanded power"
             ),
-            _Cond(
+            _Armed(
                 "stop",
-                "battery_temperature_above",
-                lim.battery_temperature_max,
+                BatteryTemperatureAbove(lim.battery_temperature_max_c),
                 -1,
                 "battery temperature limit",
-                1,
             ),
         ]
-        if lim.magnet_temperature_max is not None:
+        if lim.magnet_temperature_max_c is not None:
             out.append(
-                _Cond(
+                _Armed(
                     "stop",
-                    "magnet_temperature_above",
-                    lim.magnet_temperature_max,
+                    MagnetTemperatureAbove(lim.magnet_temperature_max_c),
                     -1,
                     "magnet temperature limit",
-                    1,
                 )
             )
         elif any(math.isfinite(u.magnet_max_c) for u in self.plant.thrusters):
             out.append(
-                _Cond(
-                    "stop",
-                    "magnet_temperature_above",
-                    math.inf,
-                    -1,
-                    "magnet temperature limit (grade maximum)",
-                    1,
-                )
+                _Armed("stop", MagnetGradeLimit(), -1, "magnet temperature limit (grade maximum)")
             )
-        if lim.duct_temperature_rise_max is not None:
+        if lim.duct_temperature_rise_max_k is not None:
             out.append(
-                _Cond(
+                _Armed(
                     "stop",
-                    "duct_temperature_rise_above",
-                    lim.duct_temperature_rise_max,
+                    DuctTemperatureRiseAbove(lim.duct_temperature_rise_max_k),
                     -1,
                     "duct temperature-rise limit",
-                    1,
                 )
             )
         return out
 
-    def _active_conditions(self) -> list[_Cond]:
+    def _active_conditions(self) -> list[_Armed]:
         m = self.m
         leg = self.legs[m.leg_index]
-        conds = self._conditions_from(leg.until, "leg", m.leg_index, leg.name)
+        conds = [_Armed("leg", c, m.leg_index, leg.name) for c in leg.until]
         for i, trig in enumerate(self.triggers):
             if i not in m.fired:
-                conds += self._conditions_from(trig.when, "trigger", i, trig.name)
+                conds += [_Armed("trigger", c, i, trig.name) for c in trig.when]
         return conds + self._stops
 
     # ------------------------------------------------------------------ legs
@@ -400,7 +336,7 @@ class MissionRunner:
             mode=leg.mode,
             setpoint=leg.setpoint,
             derate=m.derate,
-            hotel_w=leg.hotel if leg.hotel is not None else m.base_hotel_w,
+            hotel_w=leg.hotel_w if leg.hotel_w is not None else m.base_hotel_w,
         )
         y = y.copy()
         if c.mode == "speed":
@@ -445,15 +381,15 @@ class MissionRunner:
         gain = max(gain, 1e-9)
         tau_cl = min(max(0.5 * mass / damping, 2.0), 600.0)
         omega = 1.0 / tau_cl
-        if leg.speed_gain is not None:
-            c.kp_v_per_m_s = leg.speed_gain
-            ti = leg.speed_reset_time if leg.speed_reset_time is not None else 2.0 * tau_cl
-            c.ki_v_per_m = leg.speed_gain / ti
+        if leg.speed_gain_v_per_m_s is not None:
+            c.kp_v_per_m_s = leg.speed_gain_v_per_m_s
+            ti = leg.speed_reset_time_s if leg.speed_reset_time_s is not None else 2.0 * tau_cl
+            c.ki_v_per_m = leg.speed_gain_v_per_m_s / ti
         else:
             c.kp_v_per_m_s = max(0.0, (2.0 * mass * omega - damping) / gain)
             c.ki_v_per_m = mass * omega**2 / gain
-            if leg.speed_reset_time is not None:
-                c.ki_v_per_m = c.kp_v_per_m_s / leg.speed_reset_time
+            if leg.speed_reset_time_s is not None:
+                c.ki_v_per_m = c.kp_v_per_m_s / leg.speed_reset_time_s
 
     def _end_leg(self, t: float, y: np.ndarray, ending: str) -> None:
         m = self.m
@@ -516,16 +452,16 @@ class MissionRunner:
         names += ["speed-hold integral", *ACC_NAMES]
         return names[: lay.size]
 
-    def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Cond]):
+    def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Armed]):
         """Integrate from t0 towards t1; stop at the first condition that fires."""
         model = self.model
 
-        def make(c: _Cond):
+        def make(c: _Armed):
             def g(t, y):
                 return self._value(c, t, y)
 
-            g.terminal = True
-            g.direction = c.direction
+            g.terminal = c.cond.terminal
+            g.direction = c.cond.direction
             return g
 
         def rhs(t, y):  # remembers where it is, so a failure can say so; refuses NaN/inf
@@ -606,9 +542,7 @@ class MissionRunner:
                 if nxt <= env.now:  # a scheduled event is due now: let it act first
                     yield env.timeout(0)
                     continue
-                leg_end = (
-                    m.leg_t0 + leg.until.duration if leg.until.duration is not None else math.inf
-                )
+                leg_end = m.leg_t0 + leg.duration_s if leg.duration_s is not None else math.inf
                 horizon = min(self.time_limit, leg_end, nxt, t + chunk)
                 t, y, fired, _ = self._segment(t, horizon, y, conds)
                 yield env.timeout(max(0.0, t - env.now))
@@ -625,7 +559,7 @@ class MissionRunner:
                         return
                     if t >= leg_end:
                         self._record(t, y)
-                        y = self._next_leg(t, y, f"duration {leg.until.duration:g} s")
+                        y = self._next_leg(t, y, f"duration {leg.duration_s:g} s")
                         if m.ending:
                             return
                     continue  # a chunk boundary or a scheduled event: nothing to record
@@ -634,21 +568,21 @@ class MissionRunner:
             if m.ending:
                 return
 
-    def _handle(self, c: _Cond, t: float, y: np.ndarray) -> np.ndarray:
+    def _handle(self, c: _Armed, t: float, y: np.ndarray) -> np.ndarray:
         m = self.m
         if c.kind == "stop":
             self._emit(t, "stop", m.leg_index, c.label)
             self._finish(t, y, c.label, "limit")
             return y
         if c.kind == "leg":
-            return self._next_leg(t, y, _cond_text(c))
+            return self._next_leg(t, y, c.cond.describe())
         trig = self.triggers[c.owner]
         m.fired.add(c.owner)
         self._emit(
             t,
             "trigger",
             m.leg_index,
-            f"trigger {trig.name!r} ({_cond_text(c)}): {trig.then}",
+            f"trigger {trig.name!r} ({c.cond.describe()}): {trig.then}",
         )
         if trig.then == "stop":
             self._finish(t, y, f"stopped by trigger {trig.name!r}", "limit")
@@ -661,9 +595,9 @@ class MissionRunner:
             m.derate *= trig.factor
             self.model.control.derate = m.derate
         elif trig.then == "hotel":
-            m.base_hotel_w = trig.hotel
-            if self.legs[m.leg_index].hotel is None:
-                self.model.control.hotel_w = trig.hotel
+            m.base_hotel_w = trig.hotel_w
+            if self.legs[m.leg_index].hotel_w is None:
+                self.model.control.hotel_w = trig.hotel_w
         self.model.invalidate()
         return y
 
@@ -700,30 +634,30 @@ class MissionRunner:
         yield env.timeout(at)
         m = self.m
         m.base_hotel_w = hotel_w
-        if self.legs[m.leg_index].hotel is None:
+        if self.legs[m.leg_index].hotel_w is None:
             self.model.control.hotel_w = hotel_w
             self.model.invalidate()
         self._emit(env.now, "schedule", m.leg_index, f"hotel load set to {hotel_w:g} W")
 
     # ------------------------------------------------------------------ entry point
     def run(self) -> RunResult:
-        sc, p = self.sc, self.plant
+        ms, p = self.mission, self.plant
         wall0 = _time.perf_counter()
         self.m = _Mission(base_hotel_w=p.hotel_w)
         self._stops = self._stop_conditions()
-        st = sc.start
+        st = ms.start
         t_w = p.water.t_c
         y0 = initial_state(
             p,
             st.state_of_charge,
-            st.speed,
-            st.battery_temperature if st.battery_temperature is not None else t_w,
-            st.magnet_temperature if st.magnet_temperature is not None else t_w,
+            st.speed_m_s,
+            st.battery_temperature_c if st.battery_temperature_c is not None else t_w,
+            st.magnet_temperature_c if st.magnet_temperature_c is not None else t_w,
         )
         env = simpy.Environment()
-        for s in sorted(sc.schedule, key=lambda s: s.at):
-            if s.at < self.time_limit:
-                env.process(self._scheduled(env, s.at, s.hotel))
+        for s in sorted(ms.schedule, key=lambda s: s.at_s):
+            if s.at_s < self.time_limit:
+                env.process(self._scheduled(env, s.at_s, s.hotel_w))
         proc = env.process(self._process(env, y0))
         self._last_ty = (0.0, y0)
         try:
@@ -819,26 +753,6 @@ SUMMARY_UNITS = {
     "peak_thruster_current_a": "A",
     "ending_reason": "",
 }
-
-
-_COND_UNITS = {
-    "distance": "m",
-    "total_distance_above": "m",
-    "speed_above": "m/s",
-    "speed_below": "m/s",
-    "soc_below": "",
-    "cell_voltage_below": "V",
-    "duct_temperature_rise_above": "K",
-    "battery_temperature_above": "°C",
-    "magnet_temperature_above": "°C",
-    "time_after": "s",
-}
-
-
-def _cond_text(c: _Cond) -> str:
-    """'distance 600 m', 'soc below 0.45'..."""
-    unit = _COND_UNITS.get(c.name, "")
-    return f"{c.name.replace('_', ' ')} {c.threshold:g} {unit}".rstrip()
 
 
 def _describe(leg: LegSpec, derate: float) -> str:

@@ -1,7 +1,7 @@
 """The plant: every physical part of one vessel in one body of water, ready for the integrator.
 
-:func:`build_plant` turns validated file specs (plain SI floats) into physics objects once, so the
-ODE right-hand side only does arithmetic.
+:func:`build_plant` turns the engine's specs (:mod:`sim.engine.spec`, plain SI floats) into
+physics objects once, so the ODE right-hand side only does arithmetic.
 """
 
 from __future__ import annotations
@@ -9,13 +9,14 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from sim.io.schema import (
-    DisplacementHull,
-    SubmergedHull,
-    TableHull,
+from sim.engine.spec import (
+    DisplacementHullSpec,
+    HullSpec,
+    SubmergedHullSpec,
+    TableHullSpec,
     ThrusterSpec,
-    VesselFile,
-    WaterSpec,
+    VesselSpec,
+    Water,
 )
 from sim.physics import battery as bat
 from sim.physics import electrochem, hull, magnets
@@ -83,74 +84,83 @@ class Plant:
         return sum(t.units for t in self.thrusters)
 
 
-def water_from_spec(spec: WaterSpec) -> WaterState:
+def water_properties(water: Water) -> WaterState:
     """Water properties at the vessel's depth (TEOS-10 via :mod:`sim.physics.seawater`)."""
-    return water_state(spec.salinity, spec.temperature, spec.depth * DBAR_PER_M)
+    return water_state(water.salinity, water.temperature_c, water.depth_m * DBAR_PER_M)
 
 
-def _hull_model(spec, vessel_mass_kg: float, rho: float):
-    if isinstance(spec, SubmergedHull):
+def hull_model(spec: HullSpec):
+    """The calm-water resistance model of a hull (without thruster housings).
+
+    Raises :class:`~sim.physics.errors.ModelRangeError` when the hull lies outside its model's
+    validity range."""
+    if isinstance(spec, SubmergedHullSpec):
         return hull.SubmergedBody(
-            length_m=spec.length,
-            diameter_m=spec.diameter,
-            given_wetted_area_m2=spec.wetted_area,
+            length_m=spec.length_m,
+            diameter_m=spec.diameter_m,
+            given_wetted_area_m2=spec.wetted_area_m2,
             roughness_allowance=spec.roughness_allowance,
         )
-    if isinstance(spec, DisplacementHull):
+    if isinstance(spec, DisplacementHullSpec):
         return hull.DisplacementHull(
-            length_wl_m=spec.waterline_length,
-            beam_m=spec.beam,
-            draft_m=spec.draft,
-            displaced_volume_m3=spec.displaced_volume,
+            length_wl_m=spec.waterline_length_m,
+            beam_m=spec.beam_m,
+            draft_m=spec.draft_m,
+            displaced_volume_m3=spec.displaced_volume_m3,
             block_coefficient=spec.block_coefficient,
             prismatic_coefficient=spec.prismatic_coefficient,
             midship_coefficient=spec.midship_coefficient,
             waterplane_coefficient=spec.waterplane_coefficient,
             lcb_percent=spec.lcb_percent,
-            transom_area_m2=spec.transom_area,
-            bulb_area_m2=spec.bulb_area,
-            bulb_centre_height_m=spec.bulb_centre_height,
+            transom_area_m2=spec.transom_area_m2,
+            bulb_area_m2=spec.bulb_area_m2,
+            bulb_centre_height_m=spec.bulb_centre_height_m,
             stern_coefficient=spec.stern_shape,
-            given_wetted_area_m2=spec.wetted_area,
+            given_wetted_area_m2=spec.wetted_area_m2,
             given_form_factor=spec.form_factor,
             given_correlation_allowance=spec.roughness_allowance,
         )
-    if isinstance(spec, TableHull):
+    if isinstance(spec, TableHullSpec):
         return hull.TabulatedResistance(
-            speeds_m_s=tuple(spec.speeds),
-            resistances_n=tuple(spec.resistances),
-            wetted_area_m2=spec.wetted_area,
+            speeds_m_s=tuple(spec.speeds_m_s),
+            resistances_n=tuple(spec.resistances_n),
+            wetted_area_m2=spec.wetted_area_m2,
         )
     raise TypeError(f"unknown hull spec {type(spec).__name__}")
 
 
-def _added_mass(vf: VesselFile, rho: float) -> float:
-    how, value = vf.vessel.added_mass
+def _added_mass(vessel: VesselSpec) -> float:
+    how, value = vessel.added_mass_rule, vessel.added_mass_value
     if how == "mass":
         return value
     if how == "fraction":
-        return value * vf.vessel.mass
-    if isinstance(vf.hull, SubmergedHull):
-        k1 = hull.prolate_spheroid_surge_added_mass_coefficient(vf.hull.length, vf.hull.diameter)
-        return k1 * vf.vessel.mass  # neutrally buoyant: displaced mass = vessel mass
-    return 0.05 * vf.vessel.mass  # surface ship surge added mass ≈ 5 % (common practice)
+        return value * vessel.mass_kg
+    if isinstance(vessel.hull, SubmergedHullSpec):
+        k1 = hull.prolate_spheroid_surge_added_mass_coefficient(
+            vessel.hull.length_m, vessel.hull.diameter_m
+        )
+        return k1 * vessel.mass_kg  # neutrally buoyant: displaced mass = vessel mass
+    return 0.05 * vessel.mass_kg  # surface ship surge added mass ≈ 5 % (common practice)
 
 
-def _thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
+def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
+    """The physics of one thruster design (duct, electrodes, magnet).
+
+    Raises :class:`~sim.physics.errors.ModelRangeError` when the duct model rejects it."""
     pair = electrochem.ElectrodePair(
         anode=spec.anode,
         cathode=spec.cathode,
-        overpotential_v=spec.overpotential,
+        overpotential_v=spec.overpotential_v,
         chlorine_fraction=spec.chlorine_fraction,
     )
     drop = electrochem.electrode_drop_v(pair)
     duct = DuctThruster(
-        gap_m=spec.gap,
-        height_m=spec.pole_height,
-        length_m=spec.active_length,
+        gap_m=spec.gap_m,
+        height_m=spec.pole_height_m,
+        length_m=spec.active_length_m,
         n_channels=spec.channels,
-        b_tesla=spec.field,
-        roughness_m=spec.wall_roughness,
+        b_tesla=spec.field_t,
+        roughness_m=spec.wall_roughness_m,
         k_inlet=spec.inlet_loss,
         k_nozzle=spec.nozzle_loss,
         nozzle_area_ratio=spec.nozzle_area_ratio,
@@ -170,24 +180,24 @@ def _thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         duct=duct,
         units=spec.units,
         magnet_kind=spec.magnet,
-        b_ref_tesla=spec.field,
+        b_ref_tesla=spec.field_t,
         alpha_br_per_k=alpha,
-        t_ref_c=spec.field_reference_temperature,
+        t_ref_c=spec.field_reference_temperature_c,
         magnet_max_c=tmax,
-        magnet_heat_capacity_j_k=spec.magnet_heat_capacity,
-        magnet_conductance_w_k=spec.magnet_conductance,
+        magnet_heat_capacity_j_k=spec.magnet_heat_capacity_j_k,
+        magnet_conductance_w_k=spec.magnet_conductance_w_k,
     )
 
 
-def housing_appendages(vf: VesselFile):
+def housing_appendages(vessel: VesselSpec):
     """Thruster housings as appendages (external drag)."""
     out = []
-    for t in vf.thruster:
-        if t.housing_wetted_area > 0:
+    for t in vessel.thrusters:
+        if t.housing_wetted_area_m2 > 0:
             out.append(
                 hull.Appendage(
-                    wetted_area_m2=t.housing_wetted_area * t.units,
-                    reference_length_m=t.housing_length or t.active_length,
+                    wetted_area_m2=t.housing_wetted_area_m2 * t.units,
+                    reference_length_m=t.housing_length_m or t.active_length_m,
                     form_factor=t.housing_form_factor,
                     label=f"{t.name} housing",
                 )
@@ -195,34 +205,35 @@ def housing_appendages(vf: VesselFile):
     return tuple(out)
 
 
-def build_plant(vf: VesselFile, water_spec: WaterSpec) -> Plant:
-    """Build the plant from a validated vessel file and the scenario's water."""
-    water = water_from_spec(water_spec)
-    model = _hull_model(vf.hull, vf.vessel.mass, water.rho_kg_m3)
-    apps = housing_appendages(vf)
+def build_plant(vessel: VesselSpec, water: Water) -> Plant:
+    """Build the plant of a vessel in a body of water."""
+    state = water_properties(water)
+    model = hull_model(vessel.hull)
+    apps = housing_appendages(vessel)
     if apps:
         model = hull.with_appendages(model, apps)
-    cell = bat.CELL_SETS[vf.battery.cell]
+    b = vessel.battery
     pack = bat.Pack(
-        cell=cell,
-        n_series=vf.battery.series,
-        n_parallel=vf.battery.parallel,
-        extra_series_resistance_ohm=vf.battery.extra_resistance,
+        cell=bat.CELL_SETS[b.cell],
+        n_series=b.series,
+        n_parallel=b.parallel,
+        extra_series_resistance_ohm=b.extra_resistance_ohm,
     )
+    d = vessel.drive
     return Plant(
-        name=vf.vessel.name,
-        water=water,
-        water_current_m_s=water_spec.current,
+        name=vessel.name,
+        water=state,
+        water_current_m_s=water.current_m_s,
         resistance=model,
-        mass_kg=vf.vessel.mass,
-        added_mass_kg=_added_mass(vf, water.rho_kg_m3),
-        thrusters=tuple(_thruster_unit(t) for t in vf.thruster),
+        mass_kg=vessel.mass_kg,
+        added_mass_kg=_added_mass(vessel),
+        thrusters=tuple(thruster_unit(t) for t in vessel.thrusters),
         pack=pack,
-        battery_ua_w_k=vf.battery.conductance_to_water,
-        drive_efficiency=vf.drive.efficiency,
-        drive_max_current_a=vf.drive.max_current,
-        drive_max_voltage_v=vf.drive.max_voltage,
-        undervoltage_margin_v=vf.drive.undervoltage_margin,
-        hotel_w=vf.hotel.power,
-        cryocooler_w=vf.hotel.cryocooler,
+        battery_ua_w_k=b.conductance_to_water_w_k,
+        drive_efficiency=d.efficiency,
+        drive_max_current_a=d.max_current_a,
+        drive_max_voltage_v=d.max_voltage_v,
+        undervoltage_margin_v=d.undervoltage_margin_v,
+        hotel_w=vessel.hotel_w,
+        cryocooler_w=vessel.cryocooler_w,
     )

@@ -19,8 +19,14 @@ import math
 import re
 from typing import Any
 
-from sim.io.files import _MISSING, Problem
+from sim.engine.plant import build_plant, hull_model, thruster_unit
+from sim.io.problems import MISSING, Problem
 from sim.io.schema import LegSpec, ScenarioFile, VesselFile
+from sim.io.seam import hull_spec, thruster_spec, vessel_spec, water
+from sim.physics import battery, magnets
+from sim.physics.constants import KNOT_M_S
+from sim.physics.errors import ModelRangeError
+from sim.physics.thruster import operating_point
 
 __all__ = [
     "raw_scenario_problems",
@@ -31,9 +37,6 @@ __all__ = [
     "vessel_problems",
     "vessel_warnings",
 ]
-
-KNOT_M_S = 1852.0 / 3600.0
-"""One knot [m/s] (international nautical mile of 1852 m per hour)."""
 
 GAP_TO_POLE_WARNING_RATIO = 4.0
 """Electrode gap / pole height above which a warning is given: a magnet circuit cannot keep a
@@ -53,19 +56,19 @@ def raw_value(data: Any, key: str) -> Any:
     for name, index in _TOKEN.findall(key):
         if name:
             if not isinstance(node, dict) or name not in node:
-                return _MISSING
+                return MISSING
             node = node[name]
         else:
             i = int(index)
             if not isinstance(node, list) or i >= len(node):
-                return _MISSING
+                return MISSING
             node = node[i]
     return node
 
 
 def _shown(data: Any, key: str, fallback: Any) -> Any:
-    value = raw_value(data, key) if data is not None else _MISSING
-    return fallback if value is _MISSING else value
+    value = raw_value(data, key) if data is not None else MISSING
+    return fallback if value is MISSING else value
 
 
 def _choice(file: str, key: str, value: str, known, what: str) -> Problem:
@@ -117,19 +120,16 @@ def raw_vessel_problems(data: dict, file: str) -> list[Problem]:
 def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
     """Errors in a valid-looking vessel file that only the physics models can see (e.g. the
     Holtrop–Mennen validity ranges, a duct the thruster model rejects)."""
-    from sim.engine.plant import _hull_model, _thruster_unit
-    from sim.physics.errors import ModelRangeError
-
     out = []
     try:
-        _hull_model(spec.hull, spec.vessel.mass, 1025.0)
+        hull_model(hull_spec(spec.hull))
     except ModelRangeError as exc:
         out.append(_range_problem(file, "hull", type(spec.hull).model_fields, exc, data))
     except (ValueError, ArithmeticError) as exc:
-        out.append(Problem(file, "hull", _shown(data, "hull.model", _MISSING), str(exc)))
+        out.append(Problem(file, "hull", _shown(data, "hull.model", MISSING), str(exc)))
     for i, t in enumerate(spec.thruster):
         try:
-            _thruster_unit(t)
+            thruster_unit(thruster_spec(t))
         except ModelRangeError as exc:
             out.append(_range_problem(file, f"thruster[{i}]", type(t).model_fields, exc, data))
         except (ValueError, ArithmeticError) as exc:
@@ -141,7 +141,7 @@ def _range_problem(file: str, table: str, fields, exc, data: dict) -> Problem:
     """A physics model's range error as a problem, at the file key it names when it names one."""
     key = f"{table}.{exc.quantity}" if exc.quantity in fields else table
     value = raw_value(data, key) if key != table else exc.value
-    if value is _MISSING:
+    if value is MISSING:
         value = exc.value
     model = f" ({exc.model})" if exc.model else ""
     return Problem(
@@ -154,8 +154,6 @@ def _range_problem(file: str, table: str, fields, exc, data: dict) -> Problem:
 
 def vessel_warnings(spec: VesselFile, file: str, data: dict | None = None) -> list[Problem]:
     """Physically suspicious but legal choices."""
-    from sim.physics import battery, magnets
-
     out = []
     for i, t in enumerate(spec.thruster):
         key = f"thruster[{i}]"
@@ -349,13 +347,9 @@ def scenario_warnings(
     spec: ScenarioFile, vessel: VesselFile, file: str, data: dict | None = None
 ) -> list[Problem]:
     """Warnings that need the built plant (e.g. boiling water at bollard)."""
-    from sim.engine.plant import build_plant
-    from sim.physics.errors import ModelRangeError
-    from sim.physics.thruster import operating_point
-
     out = []
     try:
-        plant = build_plant(vessel, spec.water)
+        plant = build_plant(vessel_spec(vessel), water(spec.water))
     except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
     vmax = plant.drive_max_voltage_v

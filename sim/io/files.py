@@ -12,11 +12,22 @@ import re
 import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, get_args
 
 from pydantic import BaseModel, ValidationError
 
+from sim.engine.spec import MissionSpec, VesselSpec, Water
+from sim.io.checks import (
+    raw_scenario_problems,
+    raw_vessel_problems,
+    scenario_problems,
+    scenario_warnings,
+    vessel_problems,
+    vessel_warnings,
+)
+from sim.io.problems import MISSING, InputError, Problem
 from sim.io.schema import ScenarioFile, VesselFile
+from sim.io.seam import mission_spec, vessel_spec, water
 
 __all__ = [
     "InputError",
@@ -33,49 +44,14 @@ MAX_FILE_BYTES = 4 * 1024 * 1024
 
 
 @dataclass(frozen=True)
-class Problem:
-    """One thing wrong in an input file."""
-
-    file: str
-    key: str
-    value: Any
-    message: str
-    severity: str = "error"  # or "warning"
-
-    def __str__(self) -> str:
-        where = f"{self.file}: {self.key}" if self.key else self.file
-        shown = "" if self.value is _MISSING else f" = {_show(self.value)}"
-        return f"{where}{shown}: {self.message}"
-
-
-class _Missing:
-    def __repr__(self) -> str:
-        return "<missing>"
-
-
-_MISSING = _Missing()
-
-
-def _show(value: Any) -> str:
-    text = repr(value)
-    return text if len(text) <= 80 else text[:77] + "..."
-
-
-class InputError(Exception):
-    """One or more problems in input files (a user error, not a bug)."""
-
-    def __init__(self, problems: list[Problem]) -> None:
-        self.problems = problems
-        lines = [str(p) for p in problems]
-        super().__init__(f"{len(problems)} problem(s) in the input:\n  " + "\n  ".join(lines))
-
-
-@dataclass(frozen=True)
 class LoadedVessel:
     path: Path
     text: str
     """The file's text (and that of every base file it extends, in order)."""
     spec: VesselFile
+    """The validated file, as written (key names and values in SI)."""
+    vessel_spec: VesselSpec
+    """The same vessel as the engine takes it (:func:`sim.io.seam.vessel_spec`)."""
     warnings: list[Problem] = field(default_factory=list)
 
 
@@ -84,7 +60,12 @@ class LoadedScenario:
     path: Path
     text: str
     spec: ScenarioFile
+    """The validated file, as written (key names and values in SI)."""
     vessel: LoadedVessel
+    mission_spec: MissionSpec
+    """The mission as the engine takes it (:func:`sim.io.seam.mission_spec`)."""
+    water: Water
+    """The scenario's water as the engine takes it (:func:`sim.io.seam.water`)."""
     warnings: list[Problem] = field(default_factory=list)
 
 
@@ -101,7 +82,7 @@ def _exists(path: Path) -> bool:
 
 def _read_toml(path: Path) -> tuple[dict, str]:
     def fail(message: str, key: str = "") -> InputError:
-        return InputError([Problem(str(path), key, _MISSING, message)])
+        return InputError([Problem(str(path), key, MISSING, message)])
 
     try:
         if path.is_dir():
@@ -164,7 +145,7 @@ def _key_path(loc: tuple, data: Any) -> tuple[str, Any]:
     for item in loc:
         if isinstance(item, int):
             parts.append(f"[{item}]")
-            node = node[item] if isinstance(node, list) and item < len(node) else _MISSING
+            node = node[item] if isinstance(node, list) and item < len(node) else MISSING
             continue
         if isinstance(node, dict) and item in node:
             parts.append(("." if parts else "") + str(item))
@@ -173,14 +154,12 @@ def _key_path(loc: tuple, data: Any) -> tuple[str, Any]:
             continue  # discriminator tag
         else:
             parts.append(("." if parts else "") + str(item))
-            node = _MISSING
+            node = MISSING
     return "".join(parts), node
 
 
 def _fields_at(model: type[BaseModel], loc: tuple, data: Any) -> list[str]:
     """Field names of the model that holds the key at ``loc`` (for 'did you mean')."""
-    from typing import get_args
-
     current: Any = model
     node = data
     for item in loc[:-1]:
@@ -198,13 +177,10 @@ def _fields_at(model: type[BaseModel], loc: tuple, data: Any) -> list[str]:
             return []
     if isinstance(current, type) and issubclass(current, BaseModel):
         return list(current.model_fields)
-    del get_args
     return []
 
 
 def _model_in(annotation: Any, node: Any) -> type[BaseModel] | None:
-    from typing import get_args
-
     stack = [annotation]
     found: list[type[BaseModel]] = []
     while stack:
@@ -230,7 +206,7 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
         key, value = _key_path(loc, data)
         kind = err["type"]
         if kind == "bb_value" and isinstance(value, dict):
-            value = _MISSING  # a check of a whole table: its message names what is wrong
+            value = MISSING  # a check of a whole table: its message names what is wrong
         if kind == "extra_forbidden":
             names = _fields_at(model, loc, data)
             if model is VesselFile and len(loc) == 1:
@@ -240,9 +216,9 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
             allowed = f"; allowed keys here: {', '.join(names)}" if names else ""
             problems.append(Problem(file, key, value, f"unknown key{hint}{allowed}"))
         elif kind == "missing" and model is ScenarioFile and loc == ("leg",):
-            problems.append(Problem(file, key, _MISSING, _EMPTY_MISSION))
+            problems.append(Problem(file, key, MISSING, _EMPTY_MISSION))
         elif kind == "missing":
-            problems.append(Problem(file, key, _MISSING, "required key is missing"))
+            problems.append(Problem(file, key, MISSING, "required key is missing"))
         elif kind == "union_tag_invalid":
             ctx = err.get("ctx", {})
             problems.append(
@@ -256,7 +232,7 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
         elif kind == "union_tag_not_found":
             problems.append(
                 Problem(
-                    file, key + ".model", _MISSING, "required key is missing; it selects the model"
+                    file, key + ".model", MISSING, "required key is missing; it selects the model"
                 )
             )
         elif kind == "literal_error":
@@ -346,8 +322,6 @@ def validate_vessel_data(data: dict, file: str) -> VesselFile:
 
 def _validate_vessel(data: dict, file: str) -> tuple[VesselFile, list[Problem]]:
     """The validated vessel and the warnings of the cross-checks; InputError on any error."""
-    from sim.io.checks import raw_vessel_problems, vessel_problems
-
     problems: list[Problem] = []
     spec = None
     try:
@@ -378,12 +352,11 @@ def load_vessel(path: str | Path, overrides: dict | None = None) -> LoadedVessel
             + "\n"
         )
     spec, warnings = _validate_vessel(data, str(path))
-    from sim.io.checks import vessel_warnings
-
     return LoadedVessel(
         path=path,
         text=text,
         spec=spec,
+        vessel_spec=vessel_spec(spec),
         warnings=warnings + vessel_warnings(spec, str(path), data),
     )
 
@@ -397,8 +370,6 @@ def load_scenario(
     ``vessel_overrides`` is deep-merged into the vessel data before validation. Every problem
     of both files is collected before InputError is raised.
     """
-    from sim.io.checks import raw_scenario_problems, scenario_problems, scenario_warnings
-
     path = Path(path)
     data, text = _read_toml(path)
     problems: list[Problem] = []
@@ -438,6 +409,8 @@ def load_scenario(
         text=text,
         spec=spec,
         vessel=vessel,
+        mission_spec=mission_spec(spec),
+        water=water(spec.water),
         warnings=problems + scenario_warnings(spec, vessel.spec, str(path), data),
     )
 
@@ -460,7 +433,7 @@ def check_file(path: str | Path) -> tuple[str, list[Problem]]:
             Problem(
                 str(path),
                 "",
-                _MISSING,
+                MISSING,
                 "neither a vessel file (with [vessel]) nor a scenario file (with "
                 "[scenario]); allowed: one of the two",
             )

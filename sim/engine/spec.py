@@ -1,0 +1,288 @@
+"""The engine's own inputs: plain, frozen dataclasses of SI floats (temperatures in °C).
+
+The engine (plant, model, mission, steady) is built from these and nothing else; it never sees
+the file schema and never imports the io layer. The io layer's seam (``seam.py``) is the one
+place that turns validated vessel and scenario files into them. Code that has no file (a
+notebook, a sweep, the ``steady`` command) builds them directly, e.g.
+``Water(salinity=35.0, temperature_c=15.0)``.
+
+Names carry their unit where it is ambiguous (``gap_m``, ``field_t``); plain ratios and counts
+have none.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # annotations only: conditions need the model, which needs these specs
+    from sim.engine.conditions import Condition
+
+__all__ = [
+    "BatterySpec",
+    "DisplacementHullSpec",
+    "DriveSpec",
+    "HullSpec",
+    "LegSpec",
+    "LimitsSpec",
+    "MissionSpec",
+    "ScheduleSpec",
+    "SolverSpec",
+    "StartSpec",
+    "SubmergedHullSpec",
+    "TableHullSpec",
+    "ThrusterSpec",
+    "TriggerSpec",
+    "VesselSpec",
+    "Water",
+]
+
+# --------------------------------------------------------------------------- water
+
+
+@dataclass(frozen=True)
+class Water:
+    """The body of water the vessel moves in."""
+
+    salinity: float
+    """Practical salinity SP [-] (PSS-78), 0 to 42."""
+    temperature_c: float
+    """In-situ temperature [°C], −2 to 40."""
+    depth_m: float = 0.0
+    """Depth of the vessel below the surface [m] (sets the sea pressure)."""
+    current_m_s: float = 0.0
+    """Steady water current along the track [m/s], positive when it flows with the vessel."""
+
+
+# --------------------------------------------------------------------------- vessel
+
+
+@dataclass(frozen=True)
+class SubmergedHullSpec:
+    """A submerged body of revolution (friction plus form drag)."""
+
+    length_m: float
+    diameter_m: float
+    wetted_area_m2: float | None = None
+    """Given wetted area [m²]; None: from the spheroid's shape."""
+    roughness_allowance: float = 0.0
+    """Roughness allowance ΔC_F [-]."""
+
+
+@dataclass(frozen=True)
+class DisplacementHullSpec:
+    """A surface displacement hull (Holtrop–Mennen inputs)."""
+
+    waterline_length_m: float
+    beam_m: float
+    draft_m: float
+    displaced_volume_m3: float
+    block_coefficient: float
+    prismatic_coefficient: float
+    midship_coefficient: float
+    waterplane_coefficient: float
+    lcb_percent: float = 0.0
+    """Longitudinal centre of buoyancy, forward of midships [% of waterline length]."""
+    transom_area_m2: float = 0.0
+    bulb_area_m2: float = 0.0
+    bulb_centre_height_m: float = 0.0
+    stern_shape: float = 0.0
+    """Stern shape coefficient C_stern [-]."""
+    wetted_area_m2: float | None = None
+    form_factor: float | None = None
+    """Given form factor 1 + k [-]; None: from the hull's shape."""
+    roughness_allowance: float | None = None
+    """Given correlation allowance [-]; None: from the hull's length."""
+
+
+@dataclass(frozen=True)
+class TableHullSpec:
+    """Calm-water resistance from a table of (speed, resistance) points."""
+
+    speeds_m_s: tuple[float, ...]
+    resistances_n: tuple[float, ...]
+    wetted_area_m2: float | None = None
+
+
+HullSpec = SubmergedHullSpec | DisplacementHullSpec | TableHullSpec
+"""One of the hull models (told apart by type)."""
+
+
+@dataclass(frozen=True)
+class ThrusterSpec:
+    """One thruster design and how many identical units of it are fitted."""
+
+    name: str
+    gap_m: float
+    """Electrode gap [m]."""
+    pole_height_m: float
+    """Distance between the magnet poles [m]."""
+    active_length_m: float
+    """Length of the electrodes along the flow [m]."""
+    field_t: float
+    """Mean gap field at field_reference_temperature_c [T]."""
+    units: int = 1
+    channels: int = 1
+    magnet: str = "permanent"
+    """'permanent', 'superconducting' or 'electromagnet'."""
+    magnet_grade: str | None = None
+    """NdFeB grade of a permanent magnet, e.g. 'N42SH' (any case)."""
+    field_reference_temperature_c: float = 20.0
+    anode: str = "graphite"
+    cathode: str = "graphite"
+    overpotential_v: float = 0.5
+    chlorine_fraction: float = 1.0
+    """Share of the anode charge that makes chlorine [-]."""
+    wall_roughness_m: float = 1e-5
+    inlet_loss: float = 0.5
+    """Inlet loss coefficient K [-]."""
+    nozzle_loss: float = 0.02
+    """Nozzle loss coefficient K [-]."""
+    nozzle_area_ratio: float = 1.0
+    jet: str = "ducted"
+    """'ducted' or 'disk'."""
+    housing_wetted_area_m2: float = 0.0
+    """Wetted area of one unit's housing [m²] (external drag)."""
+    housing_length_m: float | None = None
+    """Reference length of the housing [m]; None: the active length."""
+    housing_form_factor: float = 1.5
+    magnet_heat_capacity_j_k: float = 5000.0
+    magnet_conductance_w_k: float = 5.0
+    """Thermal conductance from the magnet to the duct water [W/K]."""
+
+
+@dataclass(frozen=True)
+class BatterySpec:
+    """The battery pack."""
+
+    cell: str
+    """Name of a cell parameter set in :data:`sim.physics.battery.CELL_SETS`."""
+    series: int
+    parallel: int
+    extra_resistance_ohm: float = 0.0
+    """Busbar and contact resistance in series with the pack [Ω]."""
+    conductance_to_water_w_k: float = 5.0
+    """Thermal conductance from the pack to the water [W/K]."""
+
+
+@dataclass(frozen=True)
+class DriveSpec:
+    """The power electronics between the pack and the thrusters."""
+
+    max_current_a: float
+    """Per thruster unit (each unit has its own converter) [A]."""
+    max_voltage_v: float
+    efficiency: float = 0.95
+    undervoltage_margin_v: float = 0.05
+    """Per cell: the drive folds back to keep cells this far above their minimum voltage [V]."""
+
+
+@dataclass(frozen=True)
+class VesselSpec:
+    """A whole vessel."""
+
+    name: str
+    mass_kg: float
+    hull: HullSpec
+    thrusters: tuple[ThrusterSpec, ...]
+    battery: BatterySpec
+    drive: DriveSpec
+    added_mass_rule: str = "auto"
+    """'auto' (Lamb's prolate spheroid for a submerged body, 5 % of the mass otherwise),
+    'mass' (added_mass_value in kg) or 'fraction' (added_mass_value × mass_kg)."""
+    added_mass_value: float = 0.0
+    hotel_w: float = 0.0
+    cryocooler_w: float = 0.0
+
+
+# --------------------------------------------------------------------------- mission
+
+
+@dataclass(frozen=True)
+class LegSpec:
+    """One leg: a command held until the first of its end conditions holds."""
+
+    name: str
+    mode: str
+    """'voltage', 'current', 'power' or 'speed'."""
+    setpoint: float
+    """The command in SI units of its mode: V, A (all units together), W, m/s."""
+    until: tuple[Condition, ...] = ()
+    """End conditions (any one ends the leg), in the order the file gives them."""
+    duration_s: float | None = None
+    """Leg duration [s] (ends the leg at a known time, so it is not a located event)."""
+    hotel_w: float | None = None
+    """Hotel load during this leg [W]; None: the mission's current hotel load."""
+    speed_gain_v_per_m_s: float | None = None
+    """Proportional gain of the speed hold [V/(m/s)]; None: tuned from the plant."""
+    speed_reset_time_s: float | None = None
+    """Integral time of the speed hold [s]; None: tuned from the plant."""
+
+
+@dataclass(frozen=True)
+class TriggerSpec:
+    """An action taken once, the first time any of its conditions holds."""
+
+    name: str
+    when: tuple[Condition, ...]
+    then: str
+    """'goto' (leg), 'derate' (factor), 'stop' or 'hotel' (hotel_w)."""
+    leg: str | None = None
+    factor: float | None = None
+    hotel_w: float | None = None
+
+
+@dataclass(frozen=True)
+class ScheduleSpec:
+    """A hotel-load change at a known mission time."""
+
+    at_s: float
+    hotel_w: float
+
+
+@dataclass(frozen=True)
+class StartSpec:
+    """The state at the start of the run."""
+
+    state_of_charge: float = 1.0
+    speed_m_s: float = 0.0
+    battery_temperature_c: float | None = None
+    """None: the water temperature."""
+    magnet_temperature_c: float | None = None
+    """None: the water temperature."""
+
+
+@dataclass(frozen=True)
+class LimitsSpec:
+    """Stop conditions of the whole run."""
+
+    time_s: float = 86400.0
+    state_of_charge_min: float = 0.0
+    battery_temperature_max_c: float = 60.0
+    magnet_temperature_max_c: float | None = None
+    """None: each permanent magnet's grade maximum, where its grade is known."""
+    duct_temperature_rise_max_k: float | None = None
+
+
+@dataclass(frozen=True)
+class SolverSpec:
+    """Settings of :func:`scipy.integrate.solve_ivp`."""
+
+    rtol: float = 1e-7
+    max_step_s: float = 600.0
+    method: str = "RK45"
+
+
+@dataclass(frozen=True)
+class MissionSpec:
+    """Everything a run needs besides the plant."""
+
+    name: str
+    legs: tuple[LegSpec, ...]
+    triggers: tuple[TriggerSpec, ...] = ()
+    schedule: tuple[ScheduleSpec, ...] = ()
+    start: StartSpec = StartSpec()
+    limits: LimitsSpec = LimitsSpec()
+    sample_s: float = 10.0
+    """Interval of the logged samples [s]."""
+    solver: SolverSpec = SolverSpec()

@@ -1,0 +1,196 @@
+"""The one seam between the files and the engine: validated file models
+(:mod:`sim.io.schema`) become the engine's plain SI specs (:mod:`sim.engine.spec`).
+
+The schema has already turned every value with a unit into an SI float, so this module only
+renames and regroups; it never converts units and never checks values. Loaded files carry the
+results (:class:`sim.io.files.LoadedVessel.vessel_spec`,
+:class:`sim.io.files.LoadedScenario.mission_spec` and ``.water``), so most code never calls it.
+"""
+
+from __future__ import annotations
+
+from sim.engine import spec
+from sim.engine.conditions import CONDITIONS, Condition
+from sim.io import schema
+
+__all__ = [
+    "conditions",
+    "hull_spec",
+    "limits_spec",
+    "mission_spec",
+    "thruster_spec",
+    "vessel_spec",
+    "water",
+]
+
+
+def water(ws: schema.WaterSpec) -> spec.Water:
+    """A scenario's ``[water]`` table as the engine's :class:`~sim.engine.spec.Water`."""
+    return spec.Water(
+        salinity=ws.salinity,
+        temperature_c=ws.temperature,
+        depth_m=ws.depth,
+        current_m_s=ws.current,
+    )
+
+
+def hull_spec(h: schema.SubmergedHull | schema.DisplacementHull | schema.TableHull):
+    """A vessel's ``[hull]`` table as one of the engine's hull specs."""
+    if isinstance(h, schema.SubmergedHull):
+        return spec.SubmergedHullSpec(
+            length_m=h.length,
+            diameter_m=h.diameter,
+            wetted_area_m2=h.wetted_area,
+            roughness_allowance=h.roughness_allowance,
+        )
+    if isinstance(h, schema.DisplacementHull):
+        return spec.DisplacementHullSpec(
+            waterline_length_m=h.waterline_length,
+            beam_m=h.beam,
+            draft_m=h.draft,
+            displaced_volume_m3=h.displaced_volume,
+            block_coefficient=h.block_coefficient,
+            prismatic_coefficient=h.prismatic_coefficient,
+            midship_coefficient=h.midship_coefficient,
+            waterplane_coefficient=h.waterplane_coefficient,
+            lcb_percent=h.lcb_percent,
+            transom_area_m2=h.transom_area,
+            bulb_area_m2=h.bulb_area,
+            bulb_centre_height_m=h.bulb_centre_height,
+            stern_shape=h.stern_shape,
+            wetted_area_m2=h.wetted_area,
+            form_factor=h.form_factor,
+            roughness_allowance=h.roughness_allowance,
+        )
+    if isinstance(h, schema.TableHull):
+        return spec.TableHullSpec(
+            speeds_m_s=tuple(h.speeds),
+            resistances_n=tuple(h.resistances),
+            wetted_area_m2=h.wetted_area,
+        )
+    raise TypeError(f"unknown hull table {type(h).__name__}")
+
+
+def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
+    """One ``[[thruster]]`` table as the engine's :class:`~sim.engine.spec.ThrusterSpec`."""
+    return spec.ThrusterSpec(
+        name=t.name,
+        units=t.units,
+        gap_m=t.gap,
+        pole_height_m=t.pole_height,
+        active_length_m=t.active_length,
+        channels=t.channels,
+        field_t=t.field,
+        magnet=t.magnet,
+        magnet_grade=t.magnet_grade,
+        field_reference_temperature_c=t.field_reference_temperature,
+        anode=t.anode,
+        cathode=t.cathode,
+        overpotential_v=t.overpotential,
+        chlorine_fraction=t.chlorine_fraction,
+        wall_roughness_m=t.wall_roughness,
+        inlet_loss=t.inlet_loss,
+        nozzle_loss=t.nozzle_loss,
+        nozzle_area_ratio=t.nozzle_area_ratio,
+        jet=t.jet,
+        housing_wetted_area_m2=t.housing_wetted_area,
+        housing_length_m=t.housing_length,
+        housing_form_factor=t.housing_form_factor,
+        magnet_heat_capacity_j_k=t.magnet_heat_capacity,
+        magnet_conductance_w_k=t.magnet_conductance,
+    )
+
+
+def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
+    """A validated vessel file as the engine's :class:`~sim.engine.spec.VesselSpec`."""
+    rule, value = vf.vessel.added_mass
+    b, d = vf.battery, vf.drive
+    return spec.VesselSpec(
+        name=vf.vessel.name,
+        mass_kg=vf.vessel.mass,
+        hull=hull_spec(vf.hull),
+        thrusters=tuple(thruster_spec(t) for t in vf.thruster),
+        battery=spec.BatterySpec(
+            cell=b.cell,
+            series=b.series,
+            parallel=b.parallel,
+            extra_resistance_ohm=b.extra_resistance,
+            conductance_to_water_w_k=b.conductance_to_water,
+        ),
+        drive=spec.DriveSpec(
+            max_current_a=d.max_current,
+            max_voltage_v=d.max_voltage,
+            efficiency=d.efficiency,
+            undervoltage_margin_v=d.undervoltage_margin,
+        ),
+        added_mass_rule=rule,
+        added_mass_value=value,
+        hotel_w=vf.hotel.power,
+        cryocooler_w=vf.hotel.cryocooler,
+    )
+
+
+def conditions(c: schema.Conditions) -> tuple[Condition, ...]:
+    """The conditions a table gives, in the order of the schema's fields, as event objects.
+
+    ``duration`` is left out: a leg's duration ends it at a known time (``LegSpec.duration_s``)
+    and is not a located event."""
+    return tuple(
+        CONDITIONS[key](float(value)) for key, value in c.given().items() if key != "duration"
+    )
+
+
+def _leg(leg: schema.LegSpec) -> spec.LegSpec:
+    return spec.LegSpec(
+        name=leg.name,
+        mode=leg.mode,
+        setpoint=leg.setpoint,
+        until=conditions(leg.until),
+        duration_s=leg.until.duration,
+        hotel_w=leg.hotel,
+        speed_gain_v_per_m_s=leg.speed_gain,
+        speed_reset_time_s=leg.speed_reset_time,
+    )
+
+
+def _trigger(trig: schema.TriggerSpec) -> spec.TriggerSpec:
+    return spec.TriggerSpec(
+        name=trig.name,
+        when=conditions(trig.when),
+        then=trig.then,
+        leg=trig.leg,
+        factor=trig.factor,
+        hotel_w=trig.hotel,
+    )
+
+
+def limits_spec(lim: schema.LimitsSpec) -> spec.LimitsSpec:
+    """A scenario's ``[limits]`` table as the engine's :class:`~sim.engine.spec.LimitsSpec`."""
+    return spec.LimitsSpec(
+        time_s=lim.time,
+        state_of_charge_min=lim.state_of_charge_min,
+        battery_temperature_max_c=lim.battery_temperature_max,
+        magnet_temperature_max_c=lim.magnet_temperature_max,
+        duct_temperature_rise_max_k=lim.duct_temperature_rise_max,
+    )
+
+
+def mission_spec(sf: schema.ScenarioFile) -> spec.MissionSpec:
+    """A validated scenario file as the engine's :class:`~sim.engine.spec.MissionSpec` (its
+    water is :func:`water`; its vessel file is read separately)."""
+    st, sv = sf.start, sf.solver
+    return spec.MissionSpec(
+        name=sf.scenario.name,
+        legs=tuple(_leg(leg) for leg in sf.leg),
+        triggers=tuple(_trigger(t) for t in sf.trigger),
+        schedule=tuple(spec.ScheduleSpec(at_s=s.at, hotel_w=s.hotel) for s in sf.schedule),
+        start=spec.StartSpec(
+            state_of_charge=st.state_of_charge,
+            speed_m_s=st.speed,
+            battery_temperature_c=st.battery_temperature,
+            magnet_temperature_c=st.magnet_temperature,
+        ),
+        limits=limits_spec(sf.limits),
+        sample_s=sf.output.sample,
+        solver=spec.SolverSpec(rtol=sv.rtol, max_step_s=sv.max_step, method=sv.method),
+    )
