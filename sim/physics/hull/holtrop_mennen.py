@@ -133,7 +133,7 @@ class HoltropMennenCoefficients:
     bulb_head_m2_s2: float
     """g (T_F − h_B − 0.25 √A_BT) [m²/s²], the bulb immersion Froude number's head term."""
     bulb_coef_m3_s2: float
-    """0.11 exp(−3 P_B⁻²) A_BT^1.5 g [m⁴/s²·m⁻¹ = m³·m/s²]: R_B / (ρ Fn_i³/(1 + Fn_i²))."""
+    """0.11 exp(−3 P_B⁻²) A_BT^1.5 g [m⁴/s²], so that R_B = ρ·this·Fn_i³/(1 + Fn_i²)."""
     transom_speed_m_s: float
     """√(2 g A_T / (B + B C_WP)) [m/s], the transom Froude number's reference speed."""
     sqrt_gl_m_s: float
