@@ -25,12 +25,10 @@ NMC = bt.NMC_POUCH_HURIA2012
 LFP = bt.LFP_PRISMATIC_REPRESENTATIVE
 
 # Huria, Ceraolo, Gazzarri & Jackey (2012), IEEE IEVC, 20 °C table as listed in
-# /work/shared/REFERENCES.md (attribution from memory).
+# /work/shared/REFERENCES.md (attribution from memory); the full spot-value table is in
+# tests/test_cell_sets.py.
 HURIA_SOC = (0.0, 0.1, 0.25, 0.5, 0.75, 0.9, 1.0)
 HURIA_OCV = (3.51, 3.56, 3.64, 3.71, 3.93, 4.08, 4.19)
-HURIA_R0 = (8.5e-3, 8.5e-3, 8.7e-3, 8.2e-3, 8.3e-3, 8.5e-3, 8.5e-3)
-HURIA_R1 = (2.9e-3, 2.4e-3, 2.6e-3, 1.6e-3, 2.3e-3, 1.8e-3, 1.7e-3)
-HURIA_C1 = (12447.0, 18872.0, 40764.0, 18721.0, 33630.0, 18360.0, 23394.0)
 
 
 def single(cell: bt.CellParameters = NMC, **kw) -> bt.Pack:
@@ -40,21 +38,6 @@ def single(cell: bt.CellParameters = NMC, **kw) -> bt.Pack:
 # ------------------------------------------------------------------------------------------------
 # Published values
 # ------------------------------------------------------------------------------------------------
-
-
-@pytest.mark.parametrize("k", range(7))
-def test_huria_table_values_at_table_points(k):
-    # Huria et al. (2012), 20 °C table (REFERENCES.md): the model reproduces every breakpoint
-    # at the table temperature, where the Arrhenius factor is 1.
-    pack = single()
-    soc = HURIA_SOC[k]
-    assert bt.ocv_v(pack, soc) == pytest.approx(HURIA_OCV[k], rel=1e-12)
-    assert bt.r0_ohm(pack, soc, 20.0) == pytest.approx(HURIA_R0[k], rel=1e-12)
-    ((r1, c1),) = bt.rc_params(pack, soc, 20.0)
-    assert r1 == pytest.approx(HURIA_R1[k], rel=1e-12)
-    assert c1 == pytest.approx(HURIA_C1[k], rel=1e-12)
-    # the array path gives the same numbers
-    assert bt.ocv_v(pack, np.array([soc]))[0] == pytest.approx(HURIA_OCV[k], rel=1e-12)
 
 
 def test_huria_capacity_and_linear_interpolation_between_points():
@@ -411,32 +394,97 @@ def test_limit_flags_on_feasible_points():
     assert op.within_limits and op.reason == "ok"
 
 
-def test_max_power_at_min_voltage():
-    # Definition: I_lim = (E − n_s·v_min)/R0 and P = I_lim·n_s·v_min (no busbars); at that
-    # power the power solve lands the cell exactly on v_min. When the current limit binds,
-    # P = I_max·(E − I_max·R0).
+def _flat_cell(r0_ohm: float, v_min: float = 3.0, imax: float = 1e6) -> bt.CellParameters:
+    """A cell with flat OCV 3.7 V, constant R0, no temperature dependence (E_a = 0)."""
+    return replace(
+        NMC,
+        name="flat test cell",
+        soc_points=(0.0, 1.0),
+        ocv_v=(3.7, 3.7),
+        r0_ohm=(r0_ohm, r0_ohm),
+        r1_ohm=(1e-3, 1e-3),
+        c1_f=(1e4, 1e4),
+        v_min=v_min,
+        max_discharge_current_a=imax,
+        activation_energy_j_mol=0.0,
+    )
+
+
+@pytest.mark.parametrize(("margin", "rx"), [(0.0, 0.0), (0.1, 0.0), (0.0, 0.02), (0.05, 0.01)])
+def test_pack_power_limit_closed_form_flat_ocv_pure_r0(margin, rx):
+    # Circuit theory, flat OCV and a pure ohmic cell: I = (E − n_s·floor)/R_cells with
+    # floor = v_min + margin, P = I·(E − I·R), R = R_cells + R_busbar.
+    pack = bt.Pack(_flat_cell(10e-3), 10, 2, extra_series_resistance_ohm=rx)
+    e, r_cells = 37.0, 10 * 10e-3 / 2
+    i = (e - 10 * (3.0 + margin)) / r_cells
+    expect = i * (e - i * (r_cells + rx))
+    got = bt.pack_power_limit_w(pack, 0.5, 0.0, 25.0, undervoltage_margin_v=margin)
+    assert got == pytest.approx(expect, rel=1e-12)
+    if rx == 0.0:  # then P = I·n_s·floor (the cells sit exactly on the floor)
+        assert got == pytest.approx(i * 10 * (3.0 + margin), rel=1e-12)
+    # at that power the power solve lands the cell on the floor (circuit theory)
+    op = bt.solve_current_for_power(pack, 0.5, 0.0, 25.0, got)
+    assert op.cell_v == pytest.approx(3.0 + margin, rel=1e-10)
+
+
+def test_pack_power_limit_current_and_power_maximum_bounds():
+    # Circuit theory: current rating binding gives P = I_max·(E − I_max·R); with the floor out
+    # of reach the power maximum E²/(4R) at I = E/(2R) binds (matched load).
+    pack = bt.Pack(_flat_cell(10e-3, imax=20.0), 10, 2)
+    r = 10 * 10e-3 / 2
+    assert bt.pack_power_limit_w(pack, 0.5, 0.0, 25.0) == pytest.approx(
+        40.0 * (37.0 - 40.0 * r), rel=1e-12
+    )
+    low = bt.Pack(_flat_cell(10e-3, v_min=0.5), 10, 2)
+    assert bt.pack_power_limit_w(low, 0.5, 0.0, 25.0) == pytest.approx(37.0**2 / (4 * r), rel=1e-12)
+
+
+def test_pack_power_limit_limiting_cases():
+    # Limiting case, margin 0 and no busbars: the former physics definition I_lim = (E −
+    # n_s·v_min)/R0, P = I_lim·n_s·v_min on the Huria et al. (2012) cell (table in
+    # REFERENCES.md); the old name is the same function.
+    assert bt.max_power_at_min_voltage_w is bt.pack_power_limit_w
     pack = bt.Pack(NMC, 12, 2)
-    e = bt.ocv_v(pack, 0.1)
-    r = bt.r0_ohm(pack, 0.1, 20.0)
+    e = 12 * 3.56  # OCV at SOC 0.1, Huria et al. (2012)
+    r = 12 * 8.5e-3 / 2  # R0 at SOC 0.1, 20 °C, Huria et al. (2012)
     i_lim = (e - 12 * 3.0) / r
     assert i_lim < pack.max_discharge_current_a
-    p = bt.max_power_at_min_voltage_w(pack, 0.1, 0.0, 20.0)
-    assert p == pytest.approx(i_lim * 12 * 3.0, rel=1e-12)
-    op = bt.solve_current_for_power(pack, 0.1, 0.0, 20.0, p)
-    assert op.cell_v == pytest.approx(3.0, rel=1e-10)
-    # current-limited at high SOC
-    e9 = bt.ocv_v(pack, 0.9)
-    r9 = bt.r0_ohm(pack, 0.9, 20.0)
+    assert bt.pack_power_limit_w(pack, 0.1, 0.0, 20.0) == pytest.approx(i_lim * 12 * 3.0, rel=1e-12)
+    # current-limited at high SOC (3C continuous rating of the set)
+    e9, r9 = 12 * 4.08, 12 * 8.5e-3 / 2
     imax = pack.max_discharge_current_a
-    assert bt.max_power_at_min_voltage_w(pack, 0.9, 0.0, 20.0) == pytest.approx(
+    assert bt.pack_power_limit_w(pack, 0.9, 0.0, 20.0) == pytest.approx(
         imax * (e9 - imax * r9), rel=1e-12
     )
-    pv = bt.max_power_at_min_voltage_w(
-        pack, np.array([0.1, 0.9, 0.0]), np.array([0, 0, 20.0]), 20.0
-    )
-    assert pv[0] == pytest.approx(p, rel=1e-12)
-    assert pv[2] == 0.0  # polarisation already below v_min: nothing available
-    assert bt.max_power_at_min_voltage_w(pack, 0.0, 20.0, 20.0) == 0.0
+    # polarisation or margin already below the floor: nothing available
+    assert bt.pack_power_limit_w(pack, 0.0, 20.0, 20.0) == 0.0
+    assert bt.pack_power_limit_w(pack, 0.0, 0.0, 20.0, undervoltage_margin_v=0.6) == 0.0
+    # zero cell resistance: the voltage limit never binds above the floor, allows nothing below
+    ideal = bt.Pack(_flat_cell(0.0, imax=50.0), 10, 1, extra_series_resistance_ohm=0.1)
+    assert bt.pack_power_limit_w(ideal, 0.5, 0.0, 25.0) == pytest.approx(50 * (37 - 50 * 0.1))
+    assert bt.pack_power_limit_w(ideal, 0.5, 8.0, 25.0) == 0.0
+    with pytest.raises(ModelRangeError, match="undervoltage_margin_v"):
+        bt.pack_power_limit_w(pack, 0.5, 0.0, 20.0, undervoltage_margin_v=-0.1)
+
+
+@pytest.mark.parametrize("rx", [0.0, 0.01])
+def test_pack_power_limit_scalar_array_parity(rx):
+    # The scalar fast path and the numpy path are the same function (parity over a grid that
+    # covers voltage-, current- and zero-limited points, two temperatures and a margin).
+    pack = bt.Pack(NMC, 12, 2, extra_series_resistance_ohm=rx)
+    soc = np.linspace(-0.05, 1.05, 23)
+    v_rc = np.linspace(8.0, 0.0, 23)
+    for temp in (-10.0, 35.0):
+        for margin in (0.0, 0.05):
+            vec = bt.pack_power_limit_w(pack, soc, v_rc, temp, undervoltage_margin_v=margin)
+            assert isinstance(vec, np.ndarray) and vec.shape == soc.shape
+            for s, v, p in zip(soc, v_rc, vec, strict=True):
+                one = bt.pack_power_limit_w(
+                    pack, float(s), float(v), temp, undervoltage_margin_v=margin
+                )
+                assert isinstance(one, float)
+                assert one == pytest.approx(p, rel=1e-12, abs=1e-9)
+    assert np.any(vec == 0.0) and np.any(vec > 0.0)
 
 
 def test_series_parallel_scaling():

@@ -17,12 +17,14 @@ from sim.physics.hull import (
     Appendage,
     CompositeResistance,
     DisplacementHull,
+    HoltropMennenCoefficients,
     ResistanceBreakdown,
     ResistanceModel,
     SubmergedBody,
     TabulatedResistance,
     effective_power_w,
     froude_number,
+    holtrop_mennen_coefficients,
     ittc1957_cf,
     prolate_spheroid_surge_added_mass_coefficient,
     reynolds_number,
@@ -199,6 +201,52 @@ def test_hm1982_worked_example_intermediates(hm1982: DisplacementHull) -> None:
     assert hm1982.correlation_allowance == pytest.approx(0.000352, abs=1e-6)
     re = reynolds_number(25 * KNOT_M_S, 205.0, NU_SEA_15C)
     assert ittc1957_cf(re) == pytest.approx(0.001390, abs=1e-6)
+
+
+def test_hm1982_coefficients_are_a_pure_function_of_the_hull() -> None:
+    # Holtrop & Mennen (1982) section 5 worked example, same printed values and provenance as
+    # test_hm1982_worked_example_intermediates, now from the pure coefficient function.
+    k = holtrop_mennen_coefficients(**HM_EXAMPLE)
+    assert isinstance(k, HoltropMennenCoefficients)
+    assert k.cp == pytest.approx(0.5833, abs=1e-4)
+    assert k.lr_m == pytest.approx(81.385, abs=0.01)
+    assert k.c12_or_c14 == pytest.approx(0.5102, abs=1e-4)
+    assert k.form_factor == pytest.approx(1.156, abs=1e-3)
+    assert k.wetted_area_m2 == pytest.approx(7381.45, rel=5e-4)
+    assert k.ie_deg == pytest.approx(12.08, abs=0.01)
+    assert k.c1 == pytest.approx(1.398, abs=1e-3)
+    assert k.c2 == pytest.approx(0.7595, abs=1e-4)
+    assert k.c5 == pytest.approx(0.9592, abs=1e-4)
+    assert k.m1 == pytest.approx(-2.1274, abs=2e-4)
+    assert k.lam == pytest.approx(0.6513, abs=1e-4)
+    assert k.pb == pytest.approx(0.6261, abs=1e-4)
+    assert k.ca == pytest.approx(0.000352, abs=1e-6)
+    # the model holds exactly these coefficients; the result is frozen
+    assert DisplacementHull(**HM_EXAMPLE).coefficients["c1"] == k.c1
+    with pytest.raises(AttributeError):
+        k.c1 = 0.0  # type: ignore[misc]
+    # the function validates its inputs like the model (Holtrop & Mennen 1982 data ranges)
+    with pytest.raises(ModelRangeError, match="prismatic"):
+        holtrop_mennen_coefficients(**{**HM_EXAMPLE, "midship_coefficient": 0.6})
+
+
+def test_scalar_twins_match_their_vectorised_forms() -> None:
+    # Parity of the plain-float twins used on the ODE right-hand side with the numpy forms:
+    # ITTC (1957) line with the Re floor, and the Holtrop & Mennen (1982) / Holtrop (1984) wave
+    # terms, on both sides of the 1984 blend (Fn 0.40-0.55) and below the Fn floor.
+    from sim.physics.hull import friction, holtrop_mennen
+
+    re = np.array([1.0, 5e2, 1e3, 2.5e4, 1e6, 3.3e8, 2e9])
+    for x, y in zip(re, friction._cf_clamped(re), strict=True):
+        assert friction._cf_clamped_scalar(float(x)) == pytest.approx(y, rel=1e-15)
+    fn = np.array([0.0, 0.005, 0.01, 0.1, 0.2868, 0.4, 0.45, 0.55, 0.7, 1.2])
+    for rev in ("1982", "1984"):
+        k = holtrop_mennen_coefficients(**HM_EXAMPLE, revision=rev)
+        vec = holtrop_mennen._wave_per_rho(k, fn)
+        for x, y in zip(fn, vec, strict=True):
+            assert holtrop_mennen._wave_per_rho_scalar(k, float(x)) == pytest.approx(
+                y, rel=1e-13, abs=1e-300
+            )
 
 
 def test_hm1982_worked_example_resistance(hm1982: DisplacementHull) -> None:

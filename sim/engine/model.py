@@ -259,24 +259,15 @@ class VesselModel:
         """Greatest pack power the drive may draw [W]: the cells stay at or above their minimum
         voltage plus the drive's under-voltage margin, and the pack current within its rating.
 
-        The cell voltage is linear in current (OCV − V_rc − I·R0), so two evaluations give it.
+        Delegates to :func:`sim.physics.battery.pack_power_limit_w`.
         """
-        p = self.plant
-        pk = p.pack
-        at0 = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 0.0)
-        at1 = bat.solve_terminal_for_current(pk, soc, v_rc, temp_c, 1.0)
-        cell0, e = float(at0.cell_v), float(at0.terminal_v)
-        cell_drop = cell0 - float(at1.cell_v)  # cell volts lost per pack ampere
-        r_total = e - float(at1.terminal_v)  # pack ohms incl. busbars
-        floor = pk.cell.v_min + p.undervoltage_margin_v
-        i_lim = min(
-            (cell0 - floor) / cell_drop if cell_drop > 0 else math.inf, pk.max_discharge_current_a
+        return bat.pack_power_limit_w(
+            self.plant.pack,
+            soc,
+            v_rc,
+            temp_c,
+            undervoltage_margin_v=self.plant.undervoltage_margin_v,
         )
-        if r_total > 0:
-            i_lim = min(i_lim, e / (2.0 * r_total))  # beyond the power maximum power falls
-        if i_lim <= 0:
-            return 0.0
-        return i_lim * (e - i_lim * r_total)
 
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
