@@ -126,6 +126,7 @@ def test_parallel_runs_keep_input_order_and_match_serial_runs(tmp_path):
     vs = va.variants_from_options([], ["thruster.0.gap=120mm,50mm,80mm"])
     par = va.compare_variants(scen, vs, jobs=2)
     ser = va.compare_variants(scen, vs, jobs=1)
+    assert all(r.ok for r in par.runs + ser.runs)
     assert [r.label for r in par.runs] == ["gap 120mm", "gap 50mm", "gap 80mm"]
     assert [r.summary for r in par.runs] == [r.summary for r in ser.runs]
     assert par.order == ser.order
