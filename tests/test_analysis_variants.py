@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import os
+import subprocess
+import sys
 import tomllib
 
 import pytest
@@ -105,6 +108,19 @@ def test_bundled_variants_file_is_valid_and_bad_files_list_every_problem(tmp_pat
         "variant[1].vessel",
         "variant[1].what",
     ]
+
+
+def test_variants_fly_through_sim_flight_not_the_python_face():
+    # Layering (issue 8): the analysis sits below sim.api; variants fly with sim.flight.
+    code = (
+        "import sys, sim.analysis.variants; "
+        "print('sim.flight' in sys.modules, 'sim.api' in sys.modules)"
+    )
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    out = subprocess.run(
+        [sys.executable, "-c", code], cwd=ROOT, env=env, capture_output=True, text=True, check=True
+    )
+    assert out.stdout.split() == ["True", "False"]
 
 
 def test_invalid_variant_is_reported_before_anything_flies(tmp_path):
