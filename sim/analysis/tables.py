@@ -118,7 +118,7 @@ def summary_table(summary: dict, units: str | OutputUnits = "nautical") -> Table
 def leg_table(legs: Sequence, units: str | OutputUnits = "nautical") -> Table:
     """One row per leg: times, distance, energy, energy per distance, mean speed, ending.
 
-    ``legs`` are :class:`sim.analysis.reach.LegUse` records or the log's leg dicts."""
+    ``legs`` are :class:`sim.analysis.log_range.LegUse` records or the log's leg dicts."""
     u = output_units(units)
     head = [
         "leg",
@@ -225,7 +225,7 @@ def _remaining_row(name: str, rem, u: OutputUnits) -> list[str]:
 
 
 def log_range_table(lr, units: str | OutputUnits = "nautical") -> tuple[Table, Table]:
-    """(state table, range-left table) of a :class:`~sim.analysis.reach.LogRange`."""
+    """(state table, range-left table) of a :class:`~sim.analysis.log_range.LogRange`."""
     u = output_units(units)
     state = [
         ["log", f"{lr.log_path}" + ("" if lr.complete else " (partial: run not finished)")],
