@@ -8,22 +8,16 @@
 
 from __future__ import annotations
 
-import json
 from dataclasses import dataclass
 from pathlib import Path
 
-from sim.engine.mission import (
-    SUMMARY_UNITS,
-    MissionRunner,
-    RunObserver,
-    RunResult,
-    channel_specs,
-)
-from sim.engine.plant import Plant, build_plant
+from sim.engine.mission import RunObserver, RunResult
+from sim.engine.plant import build_plant
 from sim.engine.spec import Water
 from sim.engine.steady import SteadyPoint, steady_at_speed
+from sim.flight import fly, plant_for
 from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
-from sim.io.log import RunLogWriter, incomplete_path_for, read_log
+from sim.io.log import incomplete_path_for, read_log
 
 __all__ = [
     "InputError",
@@ -35,6 +29,7 @@ __all__ = [
     "load_scenario",
     "load_vessel",
     "operating_table",
+    "plant_for",
     "read_log",
     "run_scenario",
 ]
@@ -61,32 +56,6 @@ def free_log_path(path: str | Path) -> Path:
         n += 1
         candidate = path.with_name(f"{path.stem}-{n}{path.suffix}")
     return candidate
-
-
-class _LogObserver(RunObserver):
-    def __init__(self, writer: RunLogWriter, inner: RunObserver | None) -> None:
-        self.w, self.inner = writer, inner or RunObserver()
-
-    def samples(self, rows):
-        cols = {k: [r[k] for r in rows] for k in rows[0]}
-        self.w.append(cols)
-        self.w.flush()
-        self.inner.samples(rows)
-
-    def event(self, time_s, kind, leg, message):
-        self.w.add_event(time_s, kind, leg, message)
-        self.inner.event(time_s, kind, leg, message)
-
-    def leg(self, record):
-        self.w.add_leg(**record)
-        self.inner.leg(record)
-
-    def progress(self, time_s, time_limit_s, wall_s):
-        self.inner.progress(time_s, time_limit_s, wall_s)
-
-
-def plant_for(scenario: LoadedScenario) -> Plant:
-    return build_plant(scenario.vessel.vessel_spec, scenario.water)
 
 
 def run_scenario(
@@ -128,9 +97,6 @@ def run_scenario(
         Passed on after the incomplete log was written (attribute ``partial_log`` as above).
     """
     loaded = scenario if isinstance(scenario, LoadedScenario) else load_scenario(scenario)
-    plant = plant_for(loaded)
-    runner = MissionRunner(plant, loaded.mission_spec, sample_s=sample_s, observer=None)
-    writer = None
     log_path = None
     if write_log:
         if out is not None:
@@ -139,49 +105,15 @@ def run_scenario(
             log_path = default_log_path(loaded)
             if not force:
                 log_path = free_log_path(log_path)
-        log_path.parent.mkdir(parents=True, exist_ok=True)
-        writer = RunLogWriter(
-            log_path,
-            overwrite=force,
-            channel_specs=channel_specs(plant),
-            columns=[u.name for u in plant.thrusters],
-            created_utc=created_utc,
-            provenance={
-                "scenario_path": str(loaded.path),
-                "scenario_text": loaded.text,
-                "vessel_path": str(loaded.vessel.path),
-                "vessel_text": loaded.vessel.text,
-                "solver": json.dumps(
-                    {
-                        "method": runner.method,
-                        "rtol": runner.rtol,
-                        "max_step_s": runner.max_step,
-                        "sample_s": runner.sample_s,
-                    },
-                    sort_keys=True,
-                ),
-                "scenario_name": loaded.spec.scenario.name,
-                "vessel_name": loaded.vessel.spec.vessel.name,
-            },
-        )
-        runner.obs = _LogObserver(writer, observer)
-    elif observer is not None:
-        runner.obs = observer
-    try:
-        result = runner.run()
-        if writer is not None:
-            writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
-            log_path = writer.close(result.ending_reason)
-    except BaseException as exc:
-        if writer is not None:
-            why = "interrupted" if isinstance(exc, KeyboardInterrupt) else "failed"
-            text = f"{why}: {type(exc).__name__}: {exc}"
-            try:
-                exc.partial_log = writer.abort(text if len(text) <= 2000 else text[:1997] + "...")
-            except Exception:  # the original error matters more than a failed last snapshot
-                exc.partial_log = writer.incomplete_path
-        raise
-    return RunOutcome(result=result, log_path=log_path, scenario=loaded)
+    flight = fly(
+        loaded,
+        log_path=log_path,
+        overwrite=force,
+        sample_s=sample_s,
+        observer=observer,
+        created_utc=created_utc,
+    )
+    return RunOutcome(result=flight.result, log_path=flight.log_path, scenario=loaded)
 
 
 def operating_table(

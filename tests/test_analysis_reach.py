@@ -232,3 +232,16 @@ def test_fresher_water_gives_a_shorter_best_range():
         c = reach.range_curve(plant, np.geomspace(0.08, 0.4, 7), soc=0.3, soc_min=0.1, refine=False)
         ranges.append(c.best_range.range_m)
     assert ranges[0] > ranges[1] > ranges[2]
+
+
+def test_reach_re_exports_the_three_concern_modules():
+    # Issue 8 split reach.py by concern; old imports (`from sim.analysis.reach import ...`)
+    # must keep giving the very same objects.
+    from sim.analysis import endurance, log_range, range_curves
+
+    homes = {}
+    for mod in (endurance, log_range, range_curves):
+        homes.update({name: getattr(mod, name) for name in mod.__all__})
+    assert set(reach.__all__) == set(homes)
+    for name in reach.__all__:
+        assert getattr(reach, name) is homes[name], name

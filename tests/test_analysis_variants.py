@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import os
+import subprocess
+import sys
 import tomllib
 
 import pytest
@@ -107,6 +110,19 @@ def test_bundled_variants_file_is_valid_and_bad_files_list_every_problem(tmp_pat
     ]
 
 
+def test_variants_fly_through_sim_flight_not_the_python_face():
+    # Layering (issue 8): the analysis sits below sim.api; variants fly with sim.flight.
+    code = (
+        "import sys, sim.analysis.variants; "
+        "print('sim.flight' in sys.modules, 'sim.api' in sys.modules)"
+    )
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    out = subprocess.run(
+        [sys.executable, "-c", code], cwd=ROOT, env=env, capture_output=True, text=True, check=True
+    )
+    assert out.stdout.split() == ["True", "False"]
+
+
 def test_invalid_variant_is_reported_before_anything_flies(tmp_path):
     scen = write_scenario(tmp_path, SHORT)
     bad = [
@@ -126,6 +142,7 @@ def test_parallel_runs_keep_input_order_and_match_serial_runs(tmp_path):
     vs = va.variants_from_options([], ["thruster.0.gap=120mm,50mm,80mm"])
     par = va.compare_variants(scen, vs, jobs=2)
     ser = va.compare_variants(scen, vs, jobs=1)
+    assert all(r.ok for r in par.runs + ser.runs)
     assert [r.label for r in par.runs] == ["gap 120mm", "gap 50mm", "gap 80mm"]
     assert [r.summary for r in par.runs] == [r.summary for r in ser.runs]
     assert par.order == ser.order

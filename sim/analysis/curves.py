@@ -18,6 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from sim.analysis.range_curves import default_speed_grid
 from sim.engine.model import VesselModel
 from sim.engine.plant import Plant
 from sim.engine.steady import SteadyError, steady_at_speed
@@ -134,8 +135,6 @@ def thrust_flow_family(
     )
     line_v, line_q, line_t, line_u = [], [], [], []
     if speeds_m_s is None:
-        from sim.analysis.reach import default_speed_grid
-
         grid = default_speed_grid(plant, 16)
         speeds = np.linspace(0.0, 1.5 * grid[-1], 61)
     else:
@@ -207,7 +206,7 @@ def speed_curves(plant: Plant, speeds_m_s=None) -> SpeedCurves:
     ----------
     plant : Plant
     speeds_m_s : array, optional
-        Speeds through water [m/s]; default :func:`sim.analysis.reach.default_speed_grid`.
+        Speeds through water [m/s]; default :func:`sim.analysis.range_curves.default_speed_grid`.
 
     Returns
     -------
@@ -219,8 +218,6 @@ def speed_curves(plant: Plant, speeds_m_s=None) -> SpeedCurves:
     theory for η_p).
     """
     if speeds_m_s is None:
-        from sim.analysis.reach import default_speed_grid
-
         speeds_m_s = default_speed_grid(plant, 24)
     speeds = np.asarray(speeds_m_s, dtype=float)
     cols = {

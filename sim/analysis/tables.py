@@ -9,9 +9,8 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-import numpy as np
-
 from sim.analysis.units import METRIC, NAUTICAL, OutputUnits, output_units
+from sim.engine.summary import NOT_FINISHED, summarise
 from sim.io.present import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
 
 __all__ = [
@@ -80,39 +79,10 @@ def fmt_power(w: float) -> str:
 _power = fmt_power
 
 
-def _integral(y, t) -> float:
-    y, t = np.asarray(y, dtype=float), np.asarray(t, dtype=float)
-    return float(np.sum(0.5 * (y[1:] + y[:-1]) * np.diff(t))) if t.size > 1 else 0.0
-
-
 def summary_from_series(series: dict, ending_reason: str = "") -> dict:
-    """The summary numbers a partial log lacks, worked out from its samples."""
-    s = series
-    n = len(s["time_s"])
-    t = float(s["time_s"][-1])
-    x = float(s["distance_m"][-1])
-    thr_e = _integral(s["thruster_power_w"], s["time_s"])
-    use_e = _integral(s["useful_power_w"], s["time_s"])
-    e = float(s["energy_out_j"][-1])
-    total_i = np.asarray(s["thruster_current_a"], dtype=float).reshape(n, -1).sum(axis=1)
-    return {
-        "distance_m": x,
-        "duration_s": t,
-        "mean_speed_over_ground_m_s": x / t if t > 0 else 0.0,
-        "energy_out_j": e,
-        "energy_per_distance_j_m": e / x if x > 0 else 0.0,
-        "mean_overall_efficiency": use_e / thr_e if thr_e > 0 else 0.0,
-        "best_overall_efficiency": float(np.max(s["efficiency_overall"])),
-        "end_state_of_charge": float(s["state_of_charge"][-1]),
-        "peak_duct_temperature_rise_k": float(np.max(s["duct_temperature_rise_k"])),
-        "peak_battery_temperature_c": float(np.max(s["battery_temperature_c"])),
-        "peak_magnet_temperature_c": float(np.max(s["magnet_temperature_c"])),
-        "h2_total_mol": float(s["h2_total_mol"][-1]),
-        "cl2_total_mol": float(s["cl2_total_mol"][-1]),
-        "peak_pack_current_a": float(np.max(np.abs(s["pack_current_a"]))),
-        "peak_thruster_current_a": float(np.max(np.abs(total_i))),
-        "ending_reason": ending_reason or "(log stops here: run not finished)",
-    }
+    """The summary of a log without a stored one (a partial log), worked out from its samples
+    by the engine's own :func:`sim.engine.summary.summarise`."""
+    return summarise(series, ending_reason=ending_reason or NOT_FINISHED)
 
 
 def summary_table(summary: dict, units: str | OutputUnits = "nautical") -> Table:
@@ -148,7 +118,7 @@ def summary_table(summary: dict, units: str | OutputUnits = "nautical") -> Table
 def leg_table(legs: Sequence, units: str | OutputUnits = "nautical") -> Table:
     """One row per leg: times, distance, energy, energy per distance, mean speed, ending.
 
-    ``legs`` are :class:`sim.analysis.reach.LegUse` records or the log's leg dicts."""
+    ``legs`` are :class:`sim.analysis.log_range.LegUse` records or the log's leg dicts."""
     u = output_units(units)
     head = [
         "leg",
@@ -255,7 +225,7 @@ def _remaining_row(name: str, rem, u: OutputUnits) -> list[str]:
 
 
 def log_range_table(lr, units: str | OutputUnits = "nautical") -> tuple[Table, Table]:
-    """(state table, range-left table) of a :class:`~sim.analysis.reach.LogRange`."""
+    """(state table, range-left table) of a :class:`~sim.analysis.log_range.LogRange`."""
     u = output_units(units)
     state = [
         ["log", f"{lr.log_path}" + ("" if lr.complete else " (partial: run not finished)")],

@@ -45,7 +45,8 @@ from pathlib import Path
 
 import numpy as np
 
-from sim.io.files import InputError, LoadedScenario, Problem, load_scenario
+from sim.flight import fly
+from sim.io.files import InputError, LoadedScenario, Problem, _load_vessel_data, load_scenario
 
 __all__ = [
     "Comparison",
@@ -207,9 +208,7 @@ def apply_settings(data: dict, settings: Sequence[tuple[str, object]], source: s
 
 def variant_vessel_data(path: str | Path) -> dict:
     """The data of a vessel file with its ``extends`` chain merged (as the loader sees it)."""
-    from sim.io.files import _load_vessel_data  # the loader's own merge of 'extends'
-
-    data, _text = _load_vessel_data(Path(path))
+    data, _text = _load_vessel_data(Path(path))  # the loader's own merge of 'extends'
     return data
 
 
@@ -424,7 +423,7 @@ class VariantRun:
     vessel_path : the vessel file flown (a written variant file when logs are kept)
     ok : the run finished (completed or stopped by a limit); False on a failure
     error : the failure message ("" when ok)
-    summary : the run summary (keys of :data:`sim.engine.mission.SUMMARY_UNITS`)
+    summary : the run summary (keys of :data:`sim.engine.summary.SUMMARY_UNITS`)
     legs, events : the run's leg records and events
     ending_reason, ending_kind : why and how the run ended
     series : the channels of :data:`OVERLAY_CHANNELS` (1-D arrays, SI)
@@ -534,8 +533,6 @@ def _load(task: _Task) -> LoadedScenario:
 
 def _fly(task: _Task) -> VariantRun:
     """Fly one variant (runs in a worker process; must stay a module-level function)."""
-    from sim import api
-
     t0 = time.perf_counter()
     common = {
         "index": task.index,
@@ -545,13 +542,7 @@ def _fly(task: _Task) -> VariantRun:
     }
     try:
         loaded = _load(task)
-        out = api.run_scenario(
-            loaded,
-            out=task.log_path,
-            write_log=task.log_path is not None,
-            force=True,
-            sample_s=task.sample_s,
-        )
+        out = fly(loaded, log_path=task.log_path, overwrite=True, sample_s=task.sample_s)
     except KeyboardInterrupt:
         raise
     except Exception as exc:  # one failing variant must not sink the comparison

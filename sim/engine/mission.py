@@ -46,8 +46,15 @@ from sim.engine.model import (
 from sim.engine.plant import Plant
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
+from sim.engine.summary import SUMMARY_UNITS, summarise
 
-__all__ = ["MissionRunner", "RunObserver", "RunResult", "SolverFailure"]
+__all__ = [
+    "SUMMARY_UNITS",  # re-exported from sim.engine.summary
+    "MissionRunner",
+    "RunObserver",
+    "RunResult",
+    "SolverFailure",
+]
 
 
 class SolverFailure(RuntimeError):
@@ -687,39 +694,7 @@ class MissionRunner:
         lay = self.model.lay
         totals = {name: float(y[lay.acc[name]]) for name in ACC_NAMES}
         m = self.m
-        dist = float(y[I_XG])
-        dur = self._final_t
-        eff = series["efficiency_overall"]
-        driving = series["thruster_power_w"] > 0
-        useful = totals["energy_useful_j"]
-        thr_energy = (
-            totals["energy_joule_j"]
-            + totals["energy_electrode_j"]
-            + totals["energy_friction_j"]
-            + totals["energy_wake_j"]
-            + useful
-        )
-        summary = {
-            "distance_m": dist,
-            "duration_s": dur,
-            "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
-            "energy_out_j": totals["energy_pack_terminal_j"],
-            "energy_per_distance_j_m": totals["energy_pack_terminal_j"] / dist if dist > 0 else 0.0,
-            "mean_overall_efficiency": useful / thr_energy if thr_energy > 0 else 0.0,
-            "best_overall_efficiency": float(eff[driving].max()) if driving.any() else 0.0,
-            "end_state_of_charge": float(y[I_SOC]),
-            "peak_duct_temperature_rise_k": float(np.max(series["duct_temperature_rise_k"])),
-            "peak_battery_temperature_c": float(np.max(series["battery_temperature_c"])),
-            "peak_magnet_temperature_c": float(np.max(series["magnet_temperature_c"])),
-            "h2_total_mol": totals["h2_mol"],
-            "cl2_total_mol": totals["cl2_mol"],
-            "o2_total_mol": totals["o2_mol"],
-            "peak_pack_current_a": float(np.max(np.abs(series["pack_current_a"]))),
-            "peak_thruster_current_a": float(
-                np.max(np.abs(np.sum(series["thruster_current_a"], axis=1)))
-            ),
-            "ending_reason": m.ending,
-        }
+        summary = summarise(series, ending_reason=m.ending, totals=totals)
         return RunResult(
             series=series,
             events=list(self._events),
@@ -732,27 +707,6 @@ class MissionRunner:
             wall_time_s=wall,
             rhs_calls=self.model.n_rhs,
         )
-
-
-SUMMARY_UNITS = {
-    "distance_m": "m",
-    "duration_s": "s",
-    "mean_speed_over_ground_m_s": "m/s",
-    "energy_out_j": "J",
-    "energy_per_distance_j_m": "J/m",
-    "mean_overall_efficiency": "1",
-    "best_overall_efficiency": "1",
-    "end_state_of_charge": "1",
-    "peak_duct_temperature_rise_k": "K",
-    "peak_battery_temperature_c": "degC",
-    "peak_magnet_temperature_c": "degC",
-    "h2_total_mol": "mol",
-    "cl2_total_mol": "mol",
-    "o2_total_mol": "mol",
-    "peak_pack_current_a": "A",
-    "peak_thruster_current_a": "A",
-    "ending_reason": "",
-}
 
 
 def _describe(leg: LegSpec, derate: float) -> str:

@@ -1,0 +1,131 @@
+"""The run summary: one set of numbers worked out from a run's sampled series.
+
+The same function serves a finished run (:class:`sim.engine.mission.MissionRunner` passes the
+accumulated totals it integrated) and a log without a stored summary (a partial log: the
+analysis passes the series alone). Nothing here reads files.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+
+import numpy as np
+
+__all__ = ["NOT_FINISHED", "SUMMARY_UNITS", "summarise"]
+
+NOT_FINISHED = "(log stops here: run not finished)"
+"""Ending reason of the summary of a log whose run did not finish."""
+
+SUMMARY_UNITS = {
+    "distance_m": "m",
+    "duration_s": "s",
+    "mean_speed_over_ground_m_s": "m/s",
+    "energy_out_j": "J",
+    "energy_per_distance_j_m": "J/m",
+    "mean_overall_efficiency": "1",
+    "best_overall_efficiency": "1",
+    "end_state_of_charge": "1",
+    "peak_duct_temperature_rise_k": "K",
+    "peak_battery_temperature_c": "degC",
+    "peak_magnet_temperature_c": "degC",
+    "h2_total_mol": "mol",
+    "cl2_total_mol": "mol",
+    "o2_total_mol": "mol",
+    "peak_pack_current_a": "A",
+    "peak_thruster_current_a": "A",
+    "ending_reason": "",
+}
+"""Summary key -> unit text ("" for the ending reason), in the summary's key order."""
+
+
+def _trapezoid(y: np.ndarray, t: np.ndarray) -> float:
+    y, t = np.asarray(y, dtype=float), np.asarray(t, dtype=float)
+    return float(np.sum(0.5 * (y[1:] + y[:-1]) * np.diff(t))) if t.size > 1 else 0.0
+
+
+def summarise(
+    series: Mapping[str, np.ndarray],
+    *,
+    ending_reason: str,
+    totals: Mapping[str, float] | None = None,
+) -> dict[str, float | str]:
+    """The run summary (keys and units of :data:`SUMMARY_UNITS`) from a run's samples.
+
+    Parameters
+    ----------
+    series : mapping of str to array
+        The logged channels (:func:`sim.engine.mission.channel_specs`), one row per sample;
+        the last row is the state at which the run ended.
+    ending_reason : str
+        Why the run ended (:data:`NOT_FINISHED` for a log that stops before the end).
+    totals : mapping of str to float, optional
+        The accumulators integrated with the state (:data:`sim.engine.model.ACC_NAMES`:
+        energies [J], gas [mol]), known for a run flown in this process. Without them (a
+        partial log) the energies are the trapezoidal integrals of the sampled powers and the
+        oxygen follows from the logged hydrogen and chlorine.
+
+    Returns
+    -------
+    dict
+        Distance over ground [m], duration [s], mean speed over ground [m/s], pack terminal
+        energy [J] and energy per distance [J/m], mean and best overall efficiency [-] (best
+        over the samples that drive the thrusters), end state of charge [-], peak duct
+        temperature rise [K], peak battery and magnet temperatures [°C], gas evolved [mol],
+        peak pack and total thruster currents [A], and the ending reason.
+
+    Notes
+    -----
+    Mean overall efficiency = thrust work / thruster electrical energy, where the electrical
+    energy is the sum of its parts (Joule, electrode, friction, wake, useful) when ``totals``
+    are given, else ∫ V·I dt over the samples (the same quantity, to the sampling error).
+    Without ``totals`` oxygen is n_O2 = (n_H2 − n_Cl2)/2: all cathode charge evolves hydrogen,
+    the anode charge not spent on chlorine evolves oxygen.
+
+    References
+    ----------
+    Faraday's law of electrolysis (gas from charge, :func:`sim.physics.electrochem.
+    gas_rates_mol_s`).
+    """
+    s = series
+    n = len(s["time_s"])
+    dist = float(s["distance_m"][-1])
+    dur = float(s["time_s"][-1])
+    if totals is not None:
+        energy_out = totals["energy_pack_terminal_j"]
+        useful = totals["energy_useful_j"]
+        thr_energy = (
+            totals["energy_joule_j"]
+            + totals["energy_electrode_j"]
+            + totals["energy_friction_j"]
+            + totals["energy_wake_j"]
+            + useful
+        )
+        h2, cl2, o2 = totals["h2_mol"], totals["cl2_mol"], totals["o2_mol"]
+    else:
+        energy_out = float(s["energy_out_j"][-1])
+        useful = _trapezoid(s["useful_power_w"], s["time_s"])
+        thr_energy = _trapezoid(s["thruster_power_w"], s["time_s"])
+        h2, cl2 = float(s["h2_total_mol"][-1]), float(s["cl2_total_mol"][-1])
+        o2 = max(0.0, 0.5 * (h2 - cl2))
+    eff = np.asarray(s["efficiency_overall"])
+    driving = np.asarray(s["thruster_power_w"]) > 0
+    thruster_current = np.asarray(s["thruster_current_a"], dtype=float).reshape(n, -1)
+    return {
+        "distance_m": dist,
+        "duration_s": dur,
+        "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
+        "energy_out_j": energy_out,
+        "energy_per_distance_j_m": energy_out / dist if dist > 0 else 0.0,
+        "mean_overall_efficiency": useful / thr_energy if thr_energy > 0 else 0.0,
+        "best_overall_efficiency": float(eff[driving].max()) if driving.any() else 0.0,
+        "end_state_of_charge": float(s["state_of_charge"][-1]),
+        "peak_duct_temperature_rise_k": float(np.max(s["duct_temperature_rise_k"])),
+        "peak_battery_temperature_c": float(np.max(s["battery_temperature_c"])),
+        "peak_magnet_temperature_c": float(np.max(s["magnet_temperature_c"])),
+        "h2_total_mol": h2,
+        "cl2_total_mol": cl2,
+        "o2_total_mol": o2,
+        "peak_pack_current_a": float(np.max(np.abs(s["pack_current_a"]))),
+        "peak_thruster_current_a": float(np.max(np.abs(np.sum(thruster_current, axis=1)))),
+        "ending_reason": ending_reason,
+    }
