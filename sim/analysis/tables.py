@@ -12,7 +12,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from sim.analysis.units import METRIC, NAUTICAL, OutputUnits, output_units
-from sim.io.present import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
+from sim.safety import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
 
 __all__ = [
     "Table",
