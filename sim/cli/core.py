@@ -10,6 +10,7 @@ from __future__ import annotations
 import sys
 from collections.abc import Iterable
 
+from sim.physics.errors import ModelRangeError
 from sim.safety import CAUTIONS
 
 EXIT_OK, EXIT_INPUT, EXIT_LIMIT, EXIT_NUMERIC, EXIT_INTERRUPT = 0, 2, 3, 4, 130
@@ -84,7 +85,6 @@ def report_error(exc: BaseException, err) -> int:
     from sim.engine.mission import SolverFailure
     from sim.io.files import InputError
     from sim.io.log import LogDataError, LogExistsError
-    from sim.physics.errors import ModelRangeError
 
     def say(text: str) -> None:
         err.print(text, soft_wrap=True)
