@@ -17,10 +17,11 @@ from sim.analysis import plots, reach
 from sim.analysis import variants as va
 from sim.analysis.report import report_html, write_report
 from sim.analysis.units import METRIC, NAUTICAL
-from sim.cli import CAUTIONS, main
+from sim.cli import main
 from sim.engine.plant import build_plant
 from sim.engine.spec import Water
 from sim.io.log import read_log
+from sim.safety import CAUTIONS
 
 LEGS = """
 [[leg]]

@@ -9,15 +9,19 @@ so each takes well under a second.
 from __future__ import annotations
 
 import math
+import os
+import subprocess
+import sys
 from pathlib import Path
 
 import h5py
 import numpy as np
 import pytest
 
-from sim.cli import HIGH_CURRENT_A, STRONG_FIELD_T, main
+from sim.cli import main
 from sim.engine import model as model_mod
 from sim.engine.model import I_XG
+from sim.safety import HIGH_CURRENT_A, STRONG_FIELD_T
 
 ROOT = Path(__file__).resolve().parent.parent
 GLASSWORT = (ROOT / "vessels" / "glasswort-drone.toml").as_posix()
@@ -406,7 +410,7 @@ def test_small_low_field_craft_gets_no_current_or_field_flag(capsys, tmp_path):
 
 
 def test_superconducting_craft_is_warned_about_quench(capsys, tmp_path):
-    from sim.cli import safety_flags
+    from sim.cli.run import safety_flags
 
     class Outcome:  # only what safety_flags reads
         pass
@@ -418,6 +422,143 @@ def test_superconducting_craft_is_warned_about_quench(capsys, tmp_path):
     o.result = type("R", (), {"summary": {"peak_thruster_current_a": 9000.0}})()
     text = " ".join(safety_flags(o, 10.0))
     assert "8 T" in text and "quench" in text and "9,000 A" in text
+
+
+# ------------------------------------------------------------------ --units and --water
+
+
+def _cells(text: str, label: str) -> list[str]:
+    """The cells of the first table row of ``text`` that starts with ``label``."""
+    for line in text.splitlines():
+        cells = [c.strip() for c in line.strip("│┃ ").split("│")]
+        if cells and cells[0] == label:
+            return cells
+    raise AssertionError(f"no row {label!r} in:\n{text}")
+
+
+def test_run_units_metric_and_nautical(capsys, tmp_path):
+    s = str(scenario(tmp_path))
+    code, nautical = run(capsys, "run", s, "--out", str(tmp_path / "n.h5"), "--quiet")
+    assert code == 0, nautical
+    code, metric = run(
+        capsys, "run", s, "--out", str(tmp_path / "m.h5"), "--quiet", "--units", "metric"
+    )
+    assert code == 0, metric
+    assert "distance nmi" in nautical and "mean kn" in nautical
+    assert "distance km" in metric and "mean m/s" in metric
+    assert "distance nmi" not in metric and "mean kn" not in metric
+    # 1 nmi = 1852 m and 1 kn = 1852 m per hour (international definitions, 1929)
+    nmi = float(_cells(nautical, "dash")[3])
+    km = float(_cells(metric, "dash")[3])
+    assert km == pytest.approx(nmi * 1.852, abs=2e-3)
+    kn = float(_cells(nautical, "dash")[5])
+    m_s = float(_cells(metric, "dash")[5])
+    assert m_s == pytest.approx(kn * 1852 / 3600, abs=5e-3)
+    # the summary gives the chosen system first and the other in brackets
+    dist_n = _cells(nautical, "distance over ground")[1]
+    dist_m = _cells(metric, "distance over ground")[1]
+    assert dist_n.endswith("km)") and " nmi  (" in dist_n
+    assert dist_m.endswith("nmi)") and " km  (" in dist_m
+
+
+def test_steady_units_metric(capsys, monkeypatch):
+    monkeypatch.setenv("COLUMNS", "250")  # the steady table is wide
+    code, nautical = run(capsys, "steady", GLASSWORT, "--speeds", "1 kn,2 kn")
+    assert code == 0, nautical
+    code, metric = run(capsys, "steady", GLASSWORT, "--speeds", "1 kn,2 kn", "--units", "metric")
+    assert code == 0, metric
+    # 1 kn = 1852/3600 m/s = 0.514 m/s (international definition)
+    assert _cells(nautical, "1.00")[1] == "0.514"
+    assert _cells(metric, "0.514")[1] == "1.00"
+    assert _cells(metric, "1.029")[1] == "2.00"
+    # the operating point itself does not depend on how its speed is shown
+    assert _cells(nautical, "1.00")[2:] == _cells(metric, "0.514")[2:]
+
+
+def _sigma(text: str) -> float:
+    return float(text.split("σ = ")[1].split(" S/m")[0])
+
+
+def test_steady_takes_water(capsys, monkeypatch):
+    monkeypatch.setenv("COLUMNS", "250")
+    import gsw
+
+    for sp, t_c in ((35, 15), (10, 15), (35, 5)):
+        code, text = run(
+            capsys, "steady", GLASSWORT, "--speeds", "1 kn", "--water", f"{sp},{t_c} degC"
+        )
+        assert code == 0, text
+        assert f"SP {sp:g}, {t_c:g} °C" in text
+        # TEOS-10 / PSS-78 conductivity from gsw (mS/cm → S/m), at the surface
+        assert _sigma(text) == pytest.approx(gsw.C_from_SP(sp, t_c, 0.0) / 10, abs=2e-3)
+    code, text = run(capsys, "steady", GLASSWORT, "--water", "35")
+    assert code == 2 and "option --water = '35'" in text and "SALINITY,TEMPERATURE" in text
+    _no_traceback(text)
+
+
+def test_steady_deprecated_salinity_temperature_still_work(capsys, monkeypatch):
+    monkeypatch.setenv("COLUMNS", "250")
+    code, new = run(capsys, "steady", GLASSWORT, "--speeds", "1 kn", "--water", "30,10 degC")
+    assert code == 0
+    code, old = run(
+        capsys,
+        "steady",
+        GLASSWORT,
+        "--speeds",
+        "1 kn",
+        "--salinity",
+        "30",
+        "--temperature",
+        "10 degC",
+    )
+    assert code == 0, old
+    assert "deprecated" in old and "--water" in old
+    assert _sigma(old) == _sigma(new)
+    assert _cells(old, "1.00") == _cells(new, "1.00")
+    code, text = run(capsys, "steady", GLASSWORT, "--water", "30,10 degC", "--salinity", "30")
+    assert code == 2 and "cannot be combined" in text
+    code, text = run(capsys, "steady", GLASSWORT, "--temperature", "3 kg")
+    assert code == 2 and "option --temperature = '3 kg'" in text and "not a temperature" in text
+    _no_traceback(text)
+
+
+# ------------------------------------------------------------------ start-up and entry points
+
+
+def test_importing_the_cli_leaves_heavy_libraries_unloaded():
+    # `brinebolt --help` must start fast: the command modules import their heavy libraries
+    # inside the command functions only
+    probe = (
+        "import sys, contextlib, io\n"
+        "import sim.cli\n"
+        "with contextlib.redirect_stdout(io.StringIO()):\n"
+        "    assert sim.cli.main(['--help']) == 0\n"
+        "heavy = ('matplotlib', 'scipy', 'h5py', 'pydantic', 'pint', 'rich')\n"
+        "print(' '.join(sorted(m for m in sys.modules if m.split('.')[0] in heavy)))\n"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", probe],
+        cwd=ROOT,
+        env={**os.environ, "PYTHONPATH": str(ROOT)},
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    assert out.stdout.strip() == ""
+
+
+def test_python_dash_m_reports_option_errors_as_user_errors(tmp_path):
+    # regression: under `python -m sim.cli` the old single-module CLI was imported twice, so an
+    # analysis command's option error was another class and came out as "internal error" (1)
+    out = subprocess.run(
+        [sys.executable, "-m", "sim.cli", "range-curve", GLASSWORT, "--water", "60,15 degC"],
+        cwd=tmp_path,
+        env={**os.environ, "PYTHONPATH": str(ROOT), "COLUMNS": "200"},
+        capture_output=True,
+        text=True,
+    )
+    assert out.returncode == 2, out.stdout + out.stderr
+    assert "option --water = '60,15 degC'" in out.stderr and "internal error" not in out.stderr
 
 
 def test_readme_documents_the_exit_codes_and_output_naming():

@@ -24,7 +24,7 @@ from sim.analysis.tables import (
 )
 from sim.analysis.units import OutputUnits, output_units
 from sim.io.log import RunLog, read_log
-from sim.io.present import gas_caution
+from sim.safety import CAUTIONS, gas_caution
 
 __all__ = ["report_html", "write_report"]
 
@@ -103,8 +103,6 @@ def report_html(
     range_estimate : bool
         Include the range left (:func:`sim.analysis.reach.range_from_log`; about a second).
     """
-    from sim.cli import CAUTIONS
-
     u = output_units(units)
     if not isinstance(log, RunLog):
         log = read_log(log)

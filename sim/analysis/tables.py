@@ -11,7 +11,7 @@ from collections.abc import Sequence
 
 from sim.analysis.units import METRIC, NAUTICAL, OutputUnits, output_units
 from sim.engine.summary import NOT_FINISHED, summarise
-from sim.io.present import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
+from sim.safety import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
 
 __all__ = [
     "Table",

@@ -8,12 +8,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from sim.io.present import KNOT_M_S
+from sim.physics.constants import KNOT_M_S, NAUTICAL_MILE_M
 
 __all__ = ["METRIC", "NAUTICAL", "UNIT_SYSTEMS", "OutputUnits", "output_units"]
-
-NAUTICAL_MILE_M = 1852.0
-"""International nautical mile [m] (exact by definition, 1929)."""
 
 
 @dataclass(frozen=True)

@@ -1,0 +1,50 @@
+"""``brinebolt reach``: the range left according to a run log, finished or partial
+(:func:`sim.analysis.reach.range_from_log`)."""
+
+from __future__ import annotations
+
+from sim.cli import options
+from sim.cli.core import EXIT_OK, OptionError, console, esc, print_table
+
+
+def register(sub) -> None:
+    """Add ``reach`` to the subparsers."""
+    r = sub.add_parser(
+        "reach",
+        help="range left according to a run log (finished or partial)",
+        description="Distance covered, energy per distance by leg, and the range left at the "
+        "last driving leg's consumption and at the best-range speed, integrating the pack to "
+        "its cut-off (voltage sag included).",
+    )
+    r.add_argument("log", metavar="LOG", help="run log (*.h5 or *.incomplete.h5)")
+    r.add_argument(
+        "--reserve",
+        type=float,
+        metavar="SOC",
+        help="also give the range down to this state of charge, e.g. 0.2",
+    )
+    r.add_argument("--no-best", action="store_true", help="skip the best-range speed search")
+    options.add_units(r)
+    r.set_defaults(func=cmd_reach)
+
+
+def cmd_reach(args) -> int:
+    from sim.analysis.reach import LogMismatchError, range_from_log
+    from sim.analysis.tables import leg_table, log_range_table
+
+    con = console(wide_when_piped=True)
+    log = options.read_log(args.log)
+    try:
+        lr = range_from_log(
+            log, reserve_soc=options.soc(args.reserve, "--reserve"), best_speed=not args.no_best
+        )
+    except LogMismatchError as exc:
+        raise OptionError(str(exc)) from None
+    state, left = log_range_table(lr, args.units)
+    title = lr.scenario_name or str(lr.log_path)
+    print_table(con, state, f"{title}: where the run stands")
+    print_table(con, leg_table(lr.legs, args.units), "energy by leg")
+    print_table(con, left, "range left (the pack integrated to cut-off at each demand)")
+    for n in lr.notes:
+        con.print(f"[yellow]note[/] {esc(n)}")
+    return EXIT_OK

@@ -1,0 +1,142 @@
+"""``brinebolt versus``: fly one scenario with several vessel variants in parallel and rank them
+(:func:`sim.analysis.variants.compare_variants`, and an overlay figure)."""
+
+from __future__ import annotations
+
+import os
+import tomllib
+from pathlib import Path
+
+from sim.cli import options
+from sim.cli.core import (
+    EXIT_NUMERIC,
+    EXIT_OK,
+    OptionError,
+    console,
+    esc,
+    print_cautions,
+    print_table,
+)
+from sim.safety import gas_caution
+
+
+def register(sub) -> None:
+    """Add ``versus`` to the subparsers."""
+    v = sub.add_parser(
+        "versus",
+        help="fly one scenario with several vessel variants in parallel and rank them",
+        description="Fly one scenario with several vessel variants (vessel files and/or "
+        "settings of one vessel) on the local cores, print a ranked table and write an overlay "
+        "figure. FILE is a scenario file (use --vessel/--set) or a variants file.",
+    )
+    v.add_argument("file", metavar="FILE", help="scenario file, or a variants file")
+    v.add_argument(
+        "--vessel",
+        action="append",
+        default=[],
+        metavar="VESSEL",
+        help="a vessel file to fly (repeat for each variant)",
+    )
+    v.add_argument(
+        "--set",
+        action="append",
+        default=[],
+        metavar="KEY=V1,V2",
+        help="vary a vessel key, e.g. thruster.0.gap=50mm,80mm,120mm or "
+        'thruster.pylon.field="0.5 T","1 T"; several --set make a grid',
+    )
+    v.add_argument(
+        "--jobs", type=int, default=None, help="worker processes (default: one per core)"
+    )
+    v.add_argument(
+        "--rank-by",
+        default="auto",
+        choices=["auto", "distance", "energy", "duration", "efficiency", "speed"],
+        help="auto: least energy per distance when all complete the mission, "
+        "else greatest distance",
+    )
+    v.add_argument(
+        "--logs", metavar="DIR", help="also write each variant's HDF5 log and vessel file to DIR"
+    )
+    v.add_argument("--sample", help='sampling interval, e.g. "10 s" (default: the scenario\'s)')
+    options.add_units(v)
+    options.add_plots(v, "overlay")
+    v.set_defaults(func=cmd_versus)
+
+
+def cmd_versus(args) -> int:
+    from sim.analysis import variants as va
+    from sim.analysis.tables import comparison_table
+
+    con = console(wide_when_piped=True)
+    path = Path(args.file)
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+        data = {}  # the loader below reports what is wrong with it
+    title = ""
+    if "variant" in data:
+        if args.vessel or args.set:
+            raise OptionError(
+                "--vessel/--set cannot be combined with a variants file; put the "
+                "variants in the file"
+            )
+        vf = va.read_variants_file(path)
+        if vf.scenario is None:
+            raise OptionError(
+                f'variants file {path}: it names no scenario; add scenario = "file.toml"'
+            )
+        scenario, variants, title = vf.scenario, vf.variants, vf.title
+        stem = path.stem
+    else:
+        if not (args.vessel or args.set):
+            raise OptionError(
+                "nothing to compare: give --vessel FILE (twice or more), "
+                "--set KEY=V1,V2,... or a variants file"
+            )
+        try:
+            variants = va.variants_from_options(args.vessel, args.set)
+        except ValueError as exc:
+            raise OptionError(str(exc)) from None
+        scenario, stem = path, f"{path.stem}-versus"
+    if args.jobs is not None and args.jobs < 1:
+        raise OptionError(f"option --jobs = {args.jobs}: allowed: 1 or more")
+    sample = options.parse_time(args.sample, "--sample")
+
+    def done(run) -> None:
+        what = esc(run.ending_reason) if run.ok else f"[red]failed[/]: {esc(run.error)}"
+        con.print(f"  flown  {esc(run.label)} — {what} [dim]({run.wall_time_s:.1f} s)[/]")
+
+    cores = args.jobs or min(os.cpu_count() or 1, len(variants))
+    con.print(f"flying {len(variants)} variant(s) of {esc(scenario)} on {cores} core(s)…")
+    comp = va.compare_variants(
+        scenario,
+        variants,
+        jobs=args.jobs,
+        logs_dir=args.logs,
+        sample_s=sample,
+        rank_by=args.rank_by,
+        title=title,
+        progress=done,
+    )
+    print_table(
+        con,
+        comparison_table(comp, args.units),
+        f"{comp.title} — ranked ({comp.rank_basis})",
+        left=(1,),
+    )
+    flown = [r for r in comp.runs if r.ok]
+    if flown:
+        most = max(flown, key=lambda r: r.value("cl2_total_mol"))
+        con.print(f"[dim]most gas: {esc(most.label)}[/]")
+        con.print(f"[dim]{esc(gas_caution(most.summary))}[/]")
+    print_cautions(con)
+    if args.logs:
+        con.print(f"logs and variant vessel files in [bold]{esc(args.logs)}[/]")
+    if not args.no_plots and any(r.ok for r in comp.runs):
+        from sim.analysis.plots import overlay_figure
+
+        options.save_figure(
+            overlay_figure(comp, args.units), Path(args.plots) / stem, args.pdf, con
+        )
+    return EXIT_OK if all(r.ok for r in comp.runs) else EXIT_NUMERIC
