@@ -164,9 +164,18 @@ class _Shape:
     discriminator: str | None = None
 
 
-def _closure(fn) -> dict[str, Any]:
+def _closure(fn, where: str, *names: str) -> dict[str, Any]:
+    """The variables ``names`` that a validator made by a factory of sim.io.schema closes over
+    (its unit kind, range, choices...)."""
     cells = fn.__closure__ or ()
-    return {n: c.cell_contents for n, c in zip(fn.__code__.co_freevars, cells, strict=True)}
+    found = {n: c.cell_contents for n, c in zip(fn.__code__.co_freevars, cells, strict=True)}
+    missing = [n for n in names if n not in found]
+    if missing:
+        raise TypeError(
+            f"sim.io.keyref cannot read {', '.join(missing)} from the validator "
+            f"{fn.__qualname__} of key {where!r}; update _apply_validator to the new schema"
+        )
+    return found
 
 
 def _num(x: float) -> str:
@@ -192,18 +201,18 @@ def _si_unit(kind: str) -> str:
 def _apply_validator(shape: _Shape, fn, where: str) -> None:
     qual = getattr(fn, "__qualname__", "")
     if qual == "quantity.<locals>.parse":
-        c = _closure(fn)
+        c = _closure(fn, where, "kind", "gt", "ge", "lt", "le")
         shape.kind = c["kind"]
         shape.unit = _si_unit(c["kind"])
         rng = _range_text(shape.unit, c["gt"], c["ge"], c["lt"], c["le"])
         shape.allowed.append(rng or "any")
     elif qual == "number.<locals>.parse":
-        c = _closure(fn)
+        c = _closure(fn, where, "integer", "gt", "ge", "lt", "le")
         shape.unit = "whole number" if c["integer"] else "number"
         rng = _range_text("", c["gt"], c["ge"], c["lt"], c["le"])
         shape.allowed.append(rng or "any number")
     elif qual == "known_name.<locals>.check":
-        c = _closure(fn)
+        c = _closure(fn, where, "names", "upper", "what")
         shape.unit = "text"
         names = ", ".join(f"`{n}`" for n in sorted(c["names"]()))
         case = " (case ignored)" if c["upper"] else ""

@@ -206,7 +206,7 @@ class VesselInfo(_Strict):
     """[vessel]: what the vessel is and how heavy it is."""
 
     name: str = Field(min_length=1)
-    """Name of the vessel, shown in run titles and tables and stored in the log."""
+    """Name of the vessel, shown in table and figure titles and stored in the log."""
     description: str = ""
     """Free text for people; the simulation does not use it."""
     mass: quantity("mass", gt=0)
