@@ -203,47 +203,112 @@ def _added_mass(value: Any) -> tuple[str, float]:
 
 
 class VesselInfo(_Strict):
+    """[vessel]: what the vessel is and how heavy it is."""
+
     name: str = Field(min_length=1)
+    """Name of the vessel, shown in table and figure titles and stored in the log."""
     description: str = ""
+    """Free text for people; the simulation does not use it."""
     mass: quantity("mass", gt=0)
+    """Mass of the vessel as it sails (everything on board). With added_mass it sets the inertia in
+    surge: (mass + added mass)·dV/dt = thrust − resistance. A submerged-body hull is taken as
+    neutrally buoyant, so this is also its displaced mass."""
     added_mass: Annotated[tuple[str, float], BeforeValidator(_added_mass)] = ("auto", 0.0)
-    """'auto' (Lamb's prolate spheroid for a submerged body, 5 % of mass for other hulls),
-    a mass, or a fraction of the vessel mass."""
+    """Surge added mass: 'auto' (submerged-body hull: Lamb's prolate-spheroid coefficient from
+    length and diameter, times mass; other hulls: 5 % of mass), a mass with its unit, or a plain
+    number read as a fraction of mass."""
 
 
 class SubmergedHull(_Strict):
+    """Hull model "submerged-body": a deeply submerged streamlined body of revolution. Resistance is
+    skin friction (ITTC-1957 line) times Hoerner's form factor plus roughness_allowance, on the
+    wetted area; no wave resistance (the body is assumed deep enough not to feel the surface)."""
+
     model: Literal["submerged-body"]
+    """Selects this hull model: "submerged-body"."""
     length: Length
+    """Overall body length l; also the length of the Reynolds number."""
     diameter: Length
+    """Largest diameter d; the fineness ratio length/diameter must lie between 2 and 30."""
     wetted_area: quantity("area", gt=0, optional=True) = None
+    """Wetted area S of the body.
+
+    Default: the surface of the prolate spheroid of the same length and diameter (a few per cent low
+    for a body with a parallel middle part)."""
     roughness_allowance: number(ge=-1e-3, le=5e-3) = 0.0
+    """Roughness allowance ΔC_F added to the drag coefficient (not multiplied by the form factor,
+    ITTC-1978 practice); 0 is a hydraulically smooth body."""
 
 
 class DisplacementHull(_Strict):
+    """Hull model "displacement": a surface ship by the Holtrop & Mennen (1982) regression (friction
+    with form factor, wave, bulb, transom and correlation-allowance terms). `brinebolt check`
+    rejects proportions outside the ranges of the regression."""
+
     model: Literal["displacement"]
+    """Selects this hull model: "displacement"."""
     waterline_length: Length
+    """Length on the waterline L."""
     beam: Length
+    """Moulded breadth B."""
     draft: Length
+    """Mean moulded draught T (also used as the draught at the forward perpendicular)."""
     displaced_volume: quantity("volume", gt=0)
+    """Moulded displaced volume ∇."""
     block_coefficient: number(gt=0.3, le=1)
+    """Block coefficient C_B = ∇/(L·B·T); must agree with displaced_volume and the main dimensions
+    to within 1 %."""
     prismatic_coefficient: number(gt=0.4, le=1)
+    """Prismatic coefficient C_P = C_B/C_M; must agree with block_coefficient and
+    midship_coefficient to within 1 %."""
     midship_coefficient: number(gt=0.5, le=1)
+    """Midship section coefficient C_M."""
     waterplane_coefficient: number(gt=0.4, le=1)
+    """Waterplane area coefficient C_WP."""
     lcb_percent: number(ge=-10, le=10) = 0.0
+    """Longitudinal centre of buoyancy forward of midships (0.5 L), in per cent of L; negative is
+    aft."""
     transom_area: quantity("area", ge=0) = 0.0
+    """Immersed transom area at rest A_T; 0: no transom drag."""
     bulb_area: quantity("area", ge=0) = 0.0
+    """Transverse area of the bulbous bow where the still-water surface meets the stem A_BT; 0: no
+    bulb."""
     bulb_centre_height: quantity("length", ge=0) = 0.0
+    """Height of the centroid of bulb_area above the keel line h_B (at most 0.6 × draft)."""
     stern_shape: number(ge=-25, le=10) = 0.0
+    """Afterbody form coefficient C_stern: −25 pram with gondola, −10 V-shaped sections, 0 normal
+    sections, +10 U-shaped sections with Hogner stern."""
     wetted_area: quantity("area", gt=0, optional=True) = None
+    """Wetted area S of the bare hull.
+
+    Default: the Holtrop & Mennen formula."""
     form_factor: number(ge=1, le=2, optional=True) = None
+    """Form factor (1 + k1), e.g. from a Prohaska plot.
+
+    Default: the regression formula."""
     roughness_allowance: number(ge=-1e-3, le=5e-3, optional=True) = None
+    """Model-ship correlation allowance C_A; when given it replaces the regression's whole C_A
+    (roughness term included).
+
+    Default: the regression formula."""
 
 
 class TableHull(_Strict):
+    """Hull model "table": a calm-water resistance curve given point by point (model tests or
+    another prediction), interpolated by monotone cubic (PCHIP); beyond the last point R grows as
+    V²; going astern R(−V) = −R(V). The table is used as given whatever the water density."""
+
     model: Literal["table"]
+    """Selects this hull model: "table"."""
     speeds: list[quantity("speed", ge=0)] = Field(min_length=2)
+    """Speeds through water of the table points, strictly increasing. A point (0, 0) is added when
+    the table does not start at zero speed."""
     resistances: list[quantity("force", ge=0)] = Field(min_length=2)
+    """Calm-water resistance at each of the speeds (as many entries as speeds); 0 at zero speed."""
     wetted_area: quantity("area", gt=0, optional=True) = None
+    """Wetted area, for information only (the resistance comes from the table).
+
+    Default: not given."""
 
     @model_validator(mode="after")
     def _same_length(self):
@@ -269,33 +334,86 @@ Hull = Annotated[SubmergedHull | DisplacementHull | TableHull, Field(discriminat
 
 
 class ThrusterSpec(_Strict):
+    """[[thruster]]: one thruster design; `units` identical copies of it are fitted. Lengths and
+    areas here are of one channel or one unit."""
+
     name: str = Field(min_length=1)
+    """Name of the design, unique in the file; names it in logs, tables and variant settings
+    (thruster.NAME.gap)."""
     units: number(ge=1, le=64, integer=True) = 1
+    """Number of identical units of this design. Each unit has its own converter (drive.max_current
+    is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
+    housing drag are the one-unit values times units."""
     gap: Length
+    """Electrode spacing of one channel: the channel width along the electric field."""
     pole_height: Length
+    """Height of one channel between the magnet poles, along the magnetic field; the flow area of a
+    channel is gap × pole_height."""
     active_length: Length
+    """Length of one channel over which electrodes and field act (where the Lorentz force pushes the
+    water)."""
     channels: number(ge=1, le=256, integer=True) = 1
+    """Identical parallel channels in one unit; electrically in parallel (same voltage, currents
+    add)."""
     field: quantity("field", ge=0, le=30)
-    """Zero is legal (a thruster without a magnet only heats the water); it draws a warning."""
+    """Mean magnetic flux density in the gap, at field_reference_temperature. Zero is legal (a
+    thruster without a magnet only heats the water); it draws a warning."""
     magnet: Literal["permanent", "superconducting", "electromagnet"] = "permanent"
+    """Kind of magnet. 'permanent' (NdFeB): the field follows the magnet temperature (−0.12 %/K, or
+    the coefficient of magnet_grade). 'superconducting' or 'electromagnet': constant field. No
+    magnet power is modelled: give a cryocooler or coil load as hotel.cryocooler."""
     magnet_grade: known_name("magnet grade", _grades, upper=True) | None = None
-    """Permanent magnets: grade such as 'N42SH' (sets field temperature derating and the maximum
-    working temperature)."""
+    """Permanent magnets only: NdFeB grade such as 'N42SH' (case ignored). Sets the field's
+    temperature coefficient and the grade's maximum working temperature, which stops the run when a
+    magnet exceeds it (unless limits.magnet_temperature_max is given).
+
+    Default: no grade (−0.12 %/K, no grade temperature limit)."""
     field_reference_temperature: quantity("temperature", ge=-50, le=100) = 20.0
+    """Magnet temperature at which `field` holds; a permanent-magnet field is scaled by 1 +
+    α·(T_magnet − this). No effect on other magnets."""
     anode: Electrode = "graphite"
+    """Anode material. With the cathode it sets the galvanic offset (rest potential of the anode
+    minus that of the cathode in flowing seawater), which adds to the electrode voltage drop."""
     cathode: Electrode = "graphite"
+    """Cathode material (see anode)."""
     overpotential: quantity("voltage", ge=0, le=5) = 0.5
+    """Sum of the anodic and cathodic overpotentials. The electrode drop (reversible electrolysis
+    voltage + overpotential + galvanic offset) is the part of each unit's voltage that does no work
+    on the water."""
     chlorine_fraction: Fraction = 1.0
+    """Fraction of the anodic charge that evolves chlorine (the rest evolves oxygen); sets the gas
+    rates (Faraday's law) and the reversible voltage in the electrode drop. 1 is the worst case for
+    toxicity."""
     wall_roughness: quantity("length", ge=0) = 1e-5
+    """Equivalent sand roughness of the channel walls for duct friction (Colebrook); 0 is
+    hydraulically smooth; at most 0.1 of the channel's hydraulic diameter."""
     inlet_loss: number(ge=0, le=5) = 0.5
+    """Inlet loss coefficient on the channel's dynamic head (0.5: sharp-edged inlet)."""
     nozzle_loss: number(ge=0, le=5) = 0.02
+    """Nozzle loss coefficient on the jet's dynamic head."""
     nozzle_area_ratio: number(gt=0.1, le=1.5) = 1.0
+    """Exit area / channel area; below 1 the nozzle contracts and the jet leaves faster than the
+    channel flow."""
     jet: Literal["ducted", "disk"] = "ducted"
+    """Jet model: 'ducted' for intake and exit flush with the hull (jet at ambient pressure); 'disk'
+    for a short open duct in the free stream (actuator-disk momentum theory). Use 'ducted' for crash
+    stops."""
     housing_wetted_area: quantity("area", ge=0) = 0.0
+    """Outside wetted area of the housing of one unit; added to the hull resistance as an appendage
+    (times units, form-factor method). 0: no housing drag."""
     housing_length: quantity("length", gt=0, optional=True) = None
+    """Length of one housing along the flow, for its Reynolds number.
+
+    Default: active_length."""
     housing_form_factor: number(ge=1, le=3) = 1.5
+    """Form factor (1 + k2) of the housing drag."""
     magnet_heat_capacity: quantity("heat_capacity", gt=0) = 5000.0
+    """Heat capacity of the magnet of one unit (one lumped temperature per design). The magnet
+    temperature relaxes toward the mean duct water temperature with the time constant
+    magnet_heat_capacity / magnet_conductance."""
     magnet_conductance: quantity("thermal_conductance", gt=0) = 5.0
+    """Thermal conductance between the magnet of one unit and the water in its duct (mean of the
+    inlet and outlet temperatures)."""
 
     @model_validator(mode="after")
     def _grade_needs_permanent(self):
@@ -310,114 +428,279 @@ class ThrusterSpec(_Strict):
 
 
 class BatterySpec(_Strict):
+    """[battery]: the pack of identical cells (equivalent-circuit cell model)."""
+
     cell: known_name("cell parameter set", _cell_sets)
+    """Cell parameter set: open-circuit voltage, resistances, RC pairs, voltage and current limits,
+    thermal mass."""
     series: number(ge=1, le=2000, integer=True)
+    """Cells in series; pack voltage = series × cell voltage."""
     parallel: number(ge=1, le=2000, integer=True)
+    """Cells in parallel at each series position; pack capacity and current rating = parallel ×
+    those of one cell."""
     extra_resistance: quantity("resistance", ge=0) = 0.0
+    """Resistance of busbars, fuses and contactors in series with the whole pack (not per cell);
+    temperature-independent."""
     conductance_to_water: quantity("thermal_conductance", gt=0) = 5.0
+    """Overall heat-transfer conductance UA from the cells to the surrounding water; the lumped pack
+    temperature T follows (heat − UA·(T − T_water)) / thermal mass."""
 
 
 class DriveSpec(_Strict):
+    """[drive]: the power electronics between the pack and the thrusters, one converter per thruster
+    unit."""
+
     efficiency: number(gt=0.3, le=1) = 0.95
+    """Converter efficiency: while driving, the pack supplies thruster power / efficiency; power fed
+    back by the thrusters reaches the pack times efficiency. Hotel loads bypass it."""
     max_current: quantity("current", gt=0)
-    """Per thruster unit: each unit has its own converter."""
+    """Per thruster unit (each unit has its own converter), not the total: a unit whose current
+    would exceed it is held at it."""
     max_voltage: quantity("voltage", gt=0)
+    """Largest electrode voltage (either sign) the converters apply, the same for every unit.
+    Voltage legs must stay within it; power, current and speed commands are capped at it."""
     undervoltage_margin: quantity("voltage", ge=0, le=1) = 0.05
-    """Per cell: the drive folds back to keep cells this far above their minimum voltage."""
+    """Per cell: the drive folds back its power to keep every cell this far above the cell set's
+    minimum voltage."""
 
 
 class HotelSpec(_Strict):
+    """[hotel]: electrical loads other than propulsion, drawn straight from the pack."""
+
     power: quantity("power", ge=0) = 0.0
+    """Base hotel load (navigation, sensors, computers) from the start. A leg's own hotel replaces
+    it during that leg; scheduled changes and hotel triggers replace it from then on."""
     cryocooler: quantity("power", ge=0) = 0.0
+    """Constant load always drawn on top of the hotel load (e.g. the cryocooler of superconducting
+    magnets); leg, schedule and trigger hotel values do not change it."""
 
 
 class VesselFile(_Strict):
+    """A vessel file: the craft, its hull, thrusters, battery, drive and loads."""
+
     vessel: VesselInfo
+    """Name and mass of the vessel."""
     hull: Hull
+    """Hull resistance model; its key `model` selects one of the hull models."""
     thruster: list[ThrusterSpec] = Field(min_length=1)
+    """One [[thruster]] table per thruster design (at least one)."""
     battery: BatterySpec
+    """The battery pack."""
     drive: DriveSpec
+    """The power electronics."""
     hotel: HotelSpec = HotelSpec()
+    """Loads other than propulsion (optional: none)."""
 
 
 # --------------------------------------------------------------------------- scenario file
 
 
 class ScenarioInfo(_Strict):
+    """[scenario]: what the scenario is and which vessel flies it."""
+
     name: str = Field(min_length=1)
+    """Name of the scenario, shown in the run title and stored in the log."""
     description: str = ""
+    """Free text for people; the simulation does not use it."""
     vessel: str = Field(min_length=1)
-    """Path of the vessel file, relative to the scenario file."""
+    """Path of the vessel file, relative to the scenario file (`brinebolt versus` can fly other
+    vessels instead)."""
 
 
 class WaterSpec(_Strict):
+    """[water]: the body of water (properties from PSS-78 and TEOS-10 at the vessel's depth)."""
+
     salinity: number(ge=0, le=42) = 35.0
+    """Practical salinity SP (PSS-78); with temperature and depth it sets the conductivity, density,
+    viscosity and heat capacity of the water. A conductivity below 0.5 S/m draws a warning."""
     temperature: quantity("temperature", ge=-2, le=40)
+    """In-situ water temperature; also the temperature the battery and the magnets exchange heat
+    with, and their start temperature unless [start] gives one."""
     depth: quantity("length", ge=0, le=11000) = 0.0
+    """Depth of the vessel; sets the pressure for the water properties (about 1.006 dbar per metre).
+    It does not change the hull resistance."""
     current: quantity("speed", ge=-10, le=10) = 0.0
-    """Steady water current along the track [m/s], positive when it flows with the vessel."""
+    """Steady water current along the track, positive when it flows with the vessel: speed over
+    ground = speed through water + current. Distances (leg distance, total_distance_above) are over
+    ground; speeds (speed legs, speed conditions) are through the water."""
 
 
 class StartSpec(_Strict):
+    """[start]: the state at time zero."""
+
     state_of_charge: Fraction = 1.0
+    """Battery state of charge at the start (0 to 1); must be above limits.state_of_charge_min."""
     speed: quantity("speed", ge=-5, le=40) = 0.0
+    """Speed through water at the start (negative: going astern)."""
     battery_temperature: quantity("temperature", ge=-30, le=80, optional=True) = None
+    """Lumped battery temperature at the start.
+
+    Default: the water temperature."""
     magnet_temperature: quantity("temperature", ge=-30, le=200, optional=True) = None
+    """Magnet temperature of every thruster design at the start.
+
+    Default: the water temperature."""
 
 
 class OutputSpec(_Strict):
+    """[output]: what the log keeps."""
+
     sample: quantity("time", gt=0) = 10.0
+    """Interval of the logged samples, on a fixed grid from time zero; the instants of leg ends and
+    events are logged as well. `brinebolt run --sample` overrides it."""
 
 
 class SolverSpec(_Strict):
+    """[solver]: settings of the ODE integrator (scipy.integrate.solve_ivp)."""
+
     rtol: number(ge=1e-12, le=1e-2) = 1e-7
+    """Relative tolerance of the integrator; the absolute tolerances are fixed per state variable.
+    """
     max_step: quantity("time", gt=0) = 600.0
+    """Largest step the integrator may take."""
     method: Literal["RK45", "DOP853", "LSODA", "Radau", "BDF"] = "RK45"
     """scipy.integrate.solve_ivp method: explicit Runge–Kutta (RK45, DOP853) for most missions,
-    LSODA (switches to a stiff method) for long steady legs with a fast speed hold, Radau or BDF
-    for stiff plants."""
+    LSODA (switches to a stiff method) for long steady legs with a fast speed hold, Radau or BDF for
+    stiff plants."""
 
 
 class LimitsSpec(_Strict):
+    """[limits]: stop conditions watched during the whole run; the run ends early (a 'limit' ending,
+    exit code 3) when one is reached. Whatever this table says, the run also stops when a cell falls
+    to the minimum voltage of its cell set or the pack cannot deliver the demanded power."""
+
     time: quantity("time", gt=0) = 86400.0
+    """Longest mission time; the run stops with 'time limit' when it is reached."""
     state_of_charge_min: Fraction = 0.0
+    """The run stops ('pack empty') when the state of charge falls to this value."""
     battery_temperature_max: quantity("temperature", ge=0, le=120) = 60.0
+    """The run stops ('battery temperature limit') when the lumped battery temperature rises to this
+    value."""
     magnet_temperature_max: quantity("temperature", ge=0, le=250, optional=True) = None
+    """The run stops ('magnet temperature limit') when the magnet of any thruster design rises to
+    this temperature.
+
+    Default: the maximum working temperature of each thruster's magnet_grade (permanent magnets with
+    a grade); no magnet limit otherwise."""
     duct_temperature_rise_max: quantity("temperature_difference", gt=0, optional=True) = None
+    """The run stops ('duct temperature-rise limit') when the largest duct outlet-minus-inlet water
+    temperature rise of the thruster designs reaches this value.
+
+    Default: no limit."""
 
 
 class Conditions(_Strict):
-    """Conditions on the state; a set of them holds when ANY holds."""
+    """Conditions on the state; a set of them holds when ANY holds. As a leg's `until` the leg ends,
+    as a trigger's `when` the trigger fires. A condition that already holds when it is first watched
+    acts at once."""
 
     duration: quantity("time", gt=0, optional=True) = None
+    """Time since the current leg started. Only a leg's `until` watches it: in a trigger's `when` it
+    never fires (use time_after).
+
+    Default: not watched."""
     distance: quantity("distance", gt=0, optional=True) = None
+    """Distance over ground since the current leg started.
+
+    Default: not watched."""
     speed_above: quantity("speed", optional=True) = None
+    """Speed through water at or above this.
+
+    Default: not watched."""
     speed_below: quantity("speed", optional=True) = None
+    """Speed through water at or below this.
+
+    Default: not watched."""
     soc_below: number(ge=0, le=1, optional=True) = None
+    """Battery state of charge (0 to 1) at or below this.
+
+    Default: not watched."""
     cell_voltage_below: quantity("voltage", gt=0, optional=True) = None
+    """Terminal voltage of a cell, under load, at or below this.
+
+    Default: not watched."""
     duct_temperature_rise_above: quantity("temperature_difference", gt=0, optional=True) = None
+    """Largest duct outlet-minus-inlet water temperature rise of the thruster designs at or above
+    this.
+
+    Default: not watched."""
     battery_temperature_above: quantity("temperature", optional=True) = None
+    """Lumped battery temperature at or above this.
+
+    Default: not watched."""
     magnet_temperature_above: quantity("temperature", optional=True) = None
+    """Magnet temperature of any thruster design at or above this.
+
+    Default: not watched."""
     time_after: quantity("time", ge=0, optional=True) = None
-    """Mission time (from the start of the run)."""
+    """Mission time (from the start of the run) at or after this.
+
+    Default: not watched."""
     total_distance_above: quantity("distance", gt=0, optional=True) = None
+    """Distance over ground since the start of the run at or above this.
+
+    Default: not watched."""
 
     def given(self) -> dict[str, float]:
         return {k: v for k, v in self.model_dump().items() if v is not None}
 
 
 class LegSpec(_Strict):
+    """[[leg]]: one step of the mission, flown in file order (a goto trigger can jump). Exactly one
+    of voltage, current, power and speed is the leg's command; `until` says when it ends. After the
+    last leg the mission is complete."""
+
     name: str = Field(min_length=1)
+    """Name of the leg, unique in the file; goto triggers name it, and events, tables and the log
+    show it."""
     voltage: quantity("voltage", ge=-1e4, le=1e4, optional=True) = None
+    """Command: hold this electrode voltage on every thruster unit; each unit's converter applies
+    it, so it is per unit, not a sum. Negative reverses the thrust. A unit that would draw more than
+    drive.max_current is held at that current. Must stay within ±drive.max_voltage.
+
+    Default: not set (exactly one of voltage, current, power, speed per leg)."""
     current: quantity("current", ge=-1e5, le=1e5, optional=True) = None
+    """Command: hold this total thruster current, the sum over all units of all designs; each unit
+    carries current ÷ (number of units), within drive.max_current and drive.max_voltage. Negative
+    reverses the thrust.
+
+    Default: not set (exactly one of voltage, current, power, speed per leg)."""
     power: quantity("power", ge=0, le=1e9, optional=True) = None
+    """Command: hold this total electrical power into all thruster units together (V·I at the
+    electrodes summed over every unit of every design), not per unit. The drive sets one electrode
+    voltage for all units to reach it, at most drive.max_voltage. The pack supplies it ÷
+    drive.efficiency plus the hotel loads, so compare it with the 'thruster kW' column of `brinebolt
+    steady`, not with 'pack kW'.
+
+    Default: not set (exactly one of voltage, current, power, speed per leg)."""
     speed: quantity("speed", ge=0, le=40, optional=True) = None
+    """Command: hold this speed through water (not over ground) with a PI loop on the electrode
+    voltage of all units, with feed-forward from the steady solution at the target speed (see
+    speed_gain and speed_reset_time). A derate trigger lowers the target speed.
+
+    Default: not set (exactly one of voltage, current, power, speed per leg)."""
     until: Conditions
+    """End conditions (an inline table, e.g. until = { distance = "600 m" }); the leg ends when any
+    holds. At least one is required."""
     hotel: quantity("power", ge=0, optional=True) = None
+    """Hotel load during this leg, replacing the base load (hotel.power, or the last scheduled or
+    trigger value) until the leg ends; hotel.cryocooler is added on top.
+
+    Default: the base hotel load."""
     speed_gain: quantity("gain_per_speed", gt=0, optional=True) = None
-    """Proportional gain of the speed hold [V per m/s]; default from the plant."""
+    """Speed legs only (ignored by other legs): proportional gain of the speed hold, volts of
+    electrode command (the same on every unit) per m/s of speed error. When given without
+    speed_reset_time, the reset time is 2τ (τ as below).
+
+    Default: from the plant, by pole placement on the linearised surge equation at the target speed:
+    critically damped, closed-loop time constant τ half the open-loop one (mass / damping), kept
+    between 2 s and 600 s."""
     speed_reset_time: quantity("time", gt=0, optional=True) = None
-    """Integral time of the speed hold [s]; default from the plant."""
+    """Speed legs only (ignored by other legs): integral (reset) time of the speed hold; the
+    integral gain is speed_gain ÷ speed_reset_time [V per m]. Given alone, it divides the plant's
+    proportional gain.
+
+    Default: from the plant (pole placement, see speed_gain); 2τ when speed_gain is given."""
 
     @model_validator(mode="after")
     def _one_command(self):
@@ -452,12 +735,31 @@ class LegSpec(_Strict):
 
 
 class TriggerSpec(_Strict):
+    """[[trigger]]: a rule watched during every leg: when any condition of `when` holds, the action
+    `then` happens. Each trigger acts at most once per run."""
+
     name: str = Field(min_length=1)
+    """Name of the trigger, unique in the file; events show it."""
     when: Conditions
+    """Conditions (an inline table, e.g. when = { soc_below = 0.45 }); the trigger fires when any
+    holds. At least one is required."""
     then: Literal["goto", "derate", "stop", "hotel"]
+    """Action. 'goto': end the current leg and continue with the leg named by `leg`. 'derate':
+    multiply the command of the current and every later leg by `factor` (speed legs: the target
+    speed; repeated derates multiply). 'stop': end the run (a 'limit' ending). 'hotel': set the base
+    hotel load to `hotel` (a leg with its own hotel keeps that until the leg ends)."""
     leg: str | None = None
+    """With then = 'goto': the name of the leg to continue with; it must exist.
+
+    Default: not set (required by then = 'goto')."""
     factor: number(gt=0, le=1, optional=True) = None
+    """With then = 'derate': the factor on the command.
+
+    Default: not set (required by then = 'derate')."""
     hotel: quantity("power", ge=0, optional=True) = None
+    """With then = 'hotel': the new base hotel load.
+
+    Default: not set (required by then = 'hotel')."""
 
     @model_validator(mode="after")
     def _action_args(self):
@@ -479,17 +781,33 @@ class TriggerSpec(_Strict):
 
 
 class ScheduleSpec(_Strict):
+    """[[schedule]]: a change of the base hotel load at a given mission time."""
+
     at: quantity("time", ge=0)
+    """Mission time of the change; entries at or after limits.time never act."""
     hotel: quantity("power", ge=0)
+    """The new base hotel load (a leg with its own hotel keeps that until the leg ends);
+    hotel.cryocooler is added on top."""
 
 
 class ScenarioFile(_Strict):
+    """A scenario file: the water, the start, the limits and the mission."""
+
     scenario: ScenarioInfo
+    """Name of the scenario and the vessel that flies it."""
     water: WaterSpec
+    """The body of water."""
     start: StartSpec = StartSpec()
+    """The state at time zero (optional: all defaults)."""
     output: OutputSpec = OutputSpec()
+    """What the log keeps (optional)."""
     solver: SolverSpec = SolverSpec()
+    """Integrator settings (optional)."""
     limits: LimitsSpec = LimitsSpec()
+    """Stop conditions for the whole run (optional: all defaults)."""
     leg: list[LegSpec] = Field(min_length=1)
+    """The mission: one [[leg]] per step, flown in order (at least one)."""
     trigger: list[TriggerSpec] = []
+    """Rules that change the mission when a condition holds (optional)."""
     schedule: list[ScheduleSpec] = []
+    """Hotel-load changes at given mission times (optional)."""
