@@ -143,6 +143,52 @@ def test_reads_committed_v1_fixture() -> None:
         assert f["series/time_s"].shuffle
 
 
+def _layout(path: Path) -> dict[str, object]:
+    """Everything of a file's format: each object's kind, dtype, shape, storage and attributes."""
+    items: dict[str, object] = {}
+    with h5py.File(path, "r") as f:
+
+        def attrs(obj: h5py.HLObject) -> list[tuple[str, str, str]]:
+            return sorted(
+                (
+                    k,
+                    str(
+                        obj.attrs[k].dtype if hasattr(obj.attrs[k], "dtype") else type(obj.attrs[k])
+                    ),
+                    repr(obj.attrs[k]),
+                )
+                for k in obj.attrs
+            )
+
+        items["/"] = attrs(f)
+
+        def visit(name: str, obj: h5py.HLObject) -> None:
+            if isinstance(obj, h5py.Dataset):
+                items[name] = (
+                    str(obj.dtype),
+                    obj.shape,
+                    obj.chunks,
+                    obj.maxshape,
+                    obj.compression,
+                    obj.compression_opts,
+                    obj.shuffle,
+                    attrs(obj),
+                )
+            else:
+                items[name] = ("group", attrs(obj))
+
+        f.visititems(visit)
+        items["superblock"] = f.id.get_create_plist().get_version()
+    return items
+
+
+def test_writer_still_writes_format_v1_like_the_fixture(tmp_path: Path) -> None:
+    # The writer's internals changed (snapshots built in memory, issue 10); the files must not.
+    path = tmp_path / "again.h5"
+    write_v1_fixture(path)
+    assert _layout(path) == _layout(FIXTURE)
+
+
 # --------------------------------------------------------------------------------------------
 # Round trips
 # --------------------------------------------------------------------------------------------
@@ -401,7 +447,8 @@ def test_flush_leaves_valid_incomplete_file(tmp_path: Path) -> None:
     w.append(_samples(np.arange(10.0)))
     w.add_event(1.0, "start", 0, "go")
     w.flush()
-    assert sorted(p.name for p in tmp_path.iterdir()) == ["run.incomplete.h5"]  # no .tmp left
+    # No .tmp left; the lock file is held while the writer is open.
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["run.h5.lock", "run.incomplete.h5"]
     with h5py.File(w.incomplete_path, "r") as f:  # plain h5py, no brinebolt
         assert f.attrs["format"] == FORMAT_NAME
         assert not f.attrs["complete"]
