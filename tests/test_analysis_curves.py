@@ -74,8 +74,12 @@ def test_efficiency_map_reproduces_the_design_and_rises_with_field(plant):
         plant, speed_m_s=0.5, gaps_m=[d.duct.gap_m], fields_t=[m.design_field_t]
     )
     assert design.overall_efficiency[0, 0] == pytest.approx(m.design_efficiency, rel=1e-4)
-    # Lorentz force (Way 1968): thrust ≤ I·B·gap (losses only take away)
-    assert np.all(m.thrust_n <= m.current_a * m.fields_t[:, None] * m.gaps_m[None, :] * 1.0001)
+    # Momentum theory bound (issue 9: "thrust ≤ I·B·gap" was wrong, the ducted bollard thrust is
+    # twice the Lorentz force): with the jet at ambient pressure ½ρ(u_j² − V0²) ≤ Δp_L, so
+    # T = ρ r A u_j(u_j − V0) ≤ 2 r Δp_L A = 2 r I·B·gap (r = nozzle area ratio)
+    r = d.duct.nozzle_area_ratio if d.duct.jet_model == "ducted" else 1.0
+    lorentz = m.current_a * m.fields_t[:, None] * m.gaps_m[None, :]
+    assert np.all(m.thrust_n <= 2.0 * r * lorentz * 1.0001)
 
 
 def test_thruster_is_found_by_name_or_index(plant):

@@ -82,10 +82,13 @@ def test_galvanic_series_values_and_order():
 def test_aluminium_copper_offset():
     # Dissimilar electrodes, aluminium anode vs copper cathode: roughly 0.6 V (common practice).
     assert abs(ec.galvanic_offset_v("aluminium_alloy", "copper")) == pytest.approx(0.6, abs=0.1)
-    # sign: a more noble anode (copper against aluminium) opposes the applied voltage
+    # sign: a more noble anode (copper against aluminium) has a positive offset, which opposes a
+    # positive applied voltage (galvanic series midpoints −0.335 and −0.88 V vs SCE)
     noble_anode = ec.ElectrodePair("copper", "aluminium_alloy", overpotential_v=0.0)
     same = ec.ElectrodePair("copper", "copper", overpotential_v=0.0)
-    assert noble_anode.electrode_drop_v() == pytest.approx(same.electrode_drop_v() + 0.545)
+    assert noble_anode.galvanic_offset_v == pytest.approx(0.545, abs=1e-12)
+    # regression (issue 9): the offset is NOT part of the drop that flips with the current
+    assert noble_anode.electrode_drop_v() == same.electrode_drop_v()
 
 
 # ---------------------------------------------------------------------------------- identities
@@ -120,7 +123,7 @@ def test_offset_antisymmetric_and_drop_decomposes():
             assert ec.galvanic_offset_v(a, c) == pytest.approx(-ec.galvanic_offset_v(c, a))
     pair = ec.ElectrodePair("mild_steel", "stainless_316_passive", overpotential_v=0.3, ph=7.0)
     assert ec.electrode_drop_v(pair) == pytest.approx(
-        ec.reversible_cell_voltage_v(7.0) + 0.3 + pair.galvanic_offset_v, rel=1e-14
+        ec.reversible_cell_voltage_v(7.0) + 0.3, rel=1e-14
     )
     assert pair.electrode_drop_v() == ec.electrode_drop_v(pair)
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import numpy as np
 import pytest
 
 from sim.physics.seawater import WaterState
@@ -77,3 +78,46 @@ def test_changing_the_field_in_place_equals_a_new_thruster():
     )
     b = scalar_point(prepare_scalar(th4, WATER), 2.0, voltage_v=50.0)
     assert a == b
+
+
+@pytest.mark.parametrize(
+    "extra",
+    [
+        {"gas_model": "bruggeman"},
+        {"gas_model": "maxwell", "gas_slip_ratio": 1.3},
+        {"end_effects": True},
+        {"galvanic_offset_v": 0.545},
+        {"galvanic_offset_v": -0.6, "end_effects": True, "gas_model": "bruggeman"},
+    ],
+)
+@pytest.mark.parametrize("jet", ["ducted", "disk"])
+@pytest.mark.parametrize("thermal", [False, True])
+def test_scalar_matches_vectorised_with_issue9_options(extra, jet, thermal):
+    # the scalar twin of every opt-in option (gas, end effects) and of the galvanic offset
+    th = DuctThruster(
+        gap_m=0.05,
+        height_m=0.05,
+        length_m=0.8,
+        n_channels=3,
+        b_tesla=0.75,
+        roughness_m=1e-5,
+        k_inlet=0.3,
+        jet_model=jet,
+        electrode_drop_v=2.3,
+        nozzle_area_ratio=0.9,
+        **extra,
+    )
+    k = prepare_scalar(th, WATER)
+    speeds = np.array([-1.0, 0.0, 0.05, 1.0, 3.0])
+    for mode, cmds in (
+        ("voltage_v", np.array([-30.0, -3.0, 0.0, 3.0, 10.0, 40.0])),
+        ("current_a", np.array([-300.0, 0.0, 10.0, 100.0, 400.0])),
+    ):
+        v0, c = np.meshgrid(speeds, cmds)
+        vec = operating_point(th, WATER, v0, thermal_feedback=thermal, **{mode: c})
+        for i in np.ndindex(v0.shape):
+            sca = scalar_point(k, float(v0[i]), thermal_feedback=thermal, **{mode: float(c[i])})
+            for name in sca._fields:
+                assert getattr(sca, name) == pytest.approx(
+                    float(getattr(vec, name)[i]), rel=1e-9, abs=1e-9
+                ), (name, v0[i], mode, c[i])

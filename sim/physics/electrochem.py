@@ -199,9 +199,11 @@ def galvanic_offset_v(anode: str, cathode: str) -> float:
     Returns
     -------
     float
-        Offset [V]. Positive when the anode is the more noble metal: the pair's own galvanic
-        voltage then opposes the applied voltage and adds to the electrode drop. Negative when the
-        anode is the less noble metal (it corrodes sacrificially and helps drive the current).
+        Offset [V]. "Anode" is the electrode at the higher potential when the applied voltage
+        is positive. Positive when that electrode is the more noble metal: the pair's own
+        galvanic EMF then opposes a positive applied voltage (and aids a negative one). Negative
+        when it is the less noble metal (it corrodes sacrificially and helps drive a positive
+        current). Its sign does not flip with the current, unlike `electrode_drop_v`.
 
     Raises
     ------
@@ -262,12 +264,13 @@ class ElectrodePair:
         return galvanic_offset_v(self.anode, self.cathode)
 
     def electrode_drop_v(self) -> float:
-        """Voltage lost at the electrodes [V]; see :func:`electrode_drop_v`."""
+        """Voltage lost at the electrodes whichever way the current flows [V]; see
+        :func:`electrode_drop_v` (the galvanic offset is separate: `galvanic_offset_v`)."""
         return electrode_drop_v(self)
 
 
 def electrode_drop_v(pair: ElectrodePair) -> float:
-    """Voltage taken by the electrodes before any current crosses the water.
+    """Voltage the electrode reactions take, whichever way the current flows.
 
     Parameters
     ----------
@@ -277,20 +280,26 @@ def electrode_drop_v(pair: ElectrodePair) -> float:
     Returns
     -------
     float
-        Electrode drop [V]: the part of the applied voltage that does no work on the flow.
+        Electrode drop [V], ≥ 0: the part of the applied voltage that does no work on the flow
+        and opposes the current in either direction. It does NOT include the galvanic offset
+        of a dissimilar pair, which has a fixed sign (see below).
 
     Notes
     -----
-    ΔV_el = f U_Cl + (1 − f) U_O + η + (E_rest,anode − E_rest,cathode),
+    ΔV_el = f U_Cl + (1 − f) U_O + η,
 
     with U_Cl, U_O from :func:`reversible_cell_voltage_v`, f the chlorine fraction and η the
     overpotential. The charge-weighted mean of U_Cl and U_O makes ΔV_el·I equal the reversible
     work rate of the gas mix that Faraday's law (:func:`gas_rates_mol_s`) assigns to the current.
-    The galvanic term is a bookkeeping approximation for dissimilar electrodes (about 0.6 V for
-    aluminium against copper, common practice): once gas evolves, real electrode potentials are
-    set by the reactions, and a reactive anode (aluminium, zinc, magnesium) dissolves instead of
-    evolving gas. A negative result means the pair would drive current by itself (a seawater
-    cell), a regime this model does not describe.
+
+    A dissimilar pair adds its galvanic offset ΔE = E_rest,anode − E_rest,cathode
+    (:func:`galvanic_offset_v`, about 0.6 V for aluminium against copper, common practice) as a
+    fixed EMF: the voltage across the water is V − ΔE − sign(I)·ΔV_el, so the offset opposes
+    the current one way and aids it the other (`DuctThruster.galvanic_offset_v`). Lumping it
+    into ΔV_el, which flips with the current, would make it oppose both ways (a bug fixed in
+    0.1: this function used to add it). The offset is a bookkeeping approximation: once gas
+    evolves, real electrode potentials are set by the reactions, and a reactive anode
+    (aluminium, zinc, magnesium) dissolves instead of evolving gas.
 
     References
     ----------
@@ -301,7 +310,7 @@ def electrode_drop_v(pair: ElectrodePair) -> float:
     u_rev = f * reversible_cell_voltage_v(pair.ph, chlorine=True) + (
         1.0 - f
     ) * reversible_cell_voltage_v(pair.ph, chlorine=False)
-    return u_rev + pair.overpotential_v + galvanic_offset_v(pair.anode, pair.cathode)
+    return u_rev + pair.overpotential_v
 
 
 DEFAULT_ELECTRODES = ElectrodePair()

@@ -12,26 +12,31 @@ u > 0 is water flowing bow inlet → stern exit; V0 > 0 is the vessel moving ahe
 
 Assumptions (all common practice for seawater MHD): the magnetic Reynolds number μ0σuL ≪ 1
 (1e-5 to 1e-4 for metre-scale ducts), so the flow does not change B; B, E and J are uniform
-over the active volume (no end-effect current fringing outside the field region, no Hall
-effect, since the Hall parameter of seawater is ≪ 1); fully developed duct friction over the
-whole length; incompressible flow; electrolysis gas does not change σ here (void fraction is
-handled elsewhere).
+over the active volume (no Hall effect, since the Hall parameter of seawater is ≪ 1); current
+fringing beyond the ends of the active length is left out unless ``end_effects`` is set (see
+"End effects" below); fully developed duct friction over the whole length; incompressible flow;
+electrolysis gas does not change σ unless ``gas_model`` is set (see "Electrolysis gas").
 
 Electrical side (Way 1968)
 --------------------------
 Ohm's law in the moving water: J = σ(E − uB). The electrode reactions need a decomposition
-voltage plus overpotentials (plus any galvanic offset of dissimilar electrodes), lumped as V_d.
-The voltage across the water of one channel is then V − sign(J)·V_d, so
+voltage plus overpotentials, lumped as V_d ≥ 0, which opposes the current whichever way it
+flows. A dissimilar electrode pair adds its galvanic offset V_g (rest potential of the
+electrode that is positive at V > 0 minus that of the other), a fixed EMF whose sign does not
+follow the current. The voltage across the water of one channel is then V − V_g − sign(J)·V_d,
+so
 
-    E = (V − sign(J) V_d)/gap,     J = σ (E − uB),
+    E = (V − V_g − sign(J) V_d)/gap,     J = σ (E − uB),
 
 and no current flows while the net driving voltage stays inside the dead band,
-|V − uB·gap| ≤ V_d. (At u = 0 this is the familiar |V| ≤ V_d: no current below decomposition.
-The dead band is placed on V − uB·gap rather than on V alone, so that shorted electrodes in a
-ram flow do not draw a generator current below V_d, and so that voltage control and current
-control are exact inverses.) Current I = N·J·h·L; Lorentz pressure rise over the active length
-Δp_L = J·B·L. Load factor K = E/(uB); electrical efficiency η_e = uB/E = 1/K, the fraction of
-the power E·J delivered to the water that becomes flow work (Way uses n = uB/E).
+|V − V_g − uB·gap| ≤ V_d. (At u = 0 and V_g = 0 this is the familiar |V| ≤ V_d: no current
+below decomposition. The dead band is placed on V − uB·gap rather than on V alone, so that
+shorted electrodes in a ram flow do not draw a generator current below V_d, and so that voltage
+control and current control are exact inverses.) With V_g > 0 a voltage +V drives less current
+than −V does: the band is centred on V_g. Current I = N·J·h·L; Lorentz pressure rise over the
+active length Δp_L = J·B·L. Load factor K = E/(uB); Lorentz efficiency η_L = uB/E = 1/K, the
+fraction of the power E·J delivered to the water that becomes flow work (Way uses n = uB/E).
+All efficiencies are defined once in `ThrusterOperatingPoint` and in docs/efficiencies.md.
 
 With c = σB²L [Pa·s/m] and P = σBLE [Pa]: Δp_L = P − c·u.
 
@@ -85,6 +90,11 @@ around the switch voltage control and current control can land on different bran
 round trip V → I → V is exact only away from it). Use "ducted" for crash stops in time-domain
 runs.
 
+An open duct in the free stream has no nozzle: the jet contracts freely behind it. The disk
+model therefore ignores ``nozzle_area_ratio`` altogether, for the jet (u_j = 2u − V0) and for
+the nozzle loss (K_nozzle on the duct dynamic head, r = 1), including in the ducted fallback.
+(Until 0.1 the loss was scaled by 1/r² while the jet ignored r.)
+
 Friction iteration
 ------------------
 f depends on u through Re = ρ|u|D_h/μ. Each step linearises f around the previous velocity,
@@ -114,13 +124,38 @@ current mode σ² − σ_in σ − (dσ/dT)J²L/(2ρc_p u) = 0. The linear σ(T)
 boiling: the rise used for σ is capped at 100 °C − T_in, and ``boiling_risk`` flags
 T_in + ΔT ≥ 100 °C (1 atm boiling point; conservative at depth).
 
+Electrolysis gas (``gas_model`` "bruggeman" or "maxwell")
+--------------------------------------------------------
+The gas of the current (Faraday's law, at the duct's absolute pressure p_atm + sea pressure and
+the inlet temperature) accumulates linearly along the channel; its length-mean conductivity
+ratio ⟨f⟩(a), a = Q_gas/Q_water, is given in `sim.physics.gas` (slip ratio
+``gas_slip_ratio``, default 1: homogeneous). The mixture conductivity σ_m = σ_w·⟨f⟩ enters J,
+the current and the Joule heat (J²/σ_m). In voltage mode it is solved jointly with u and the
+Joule feedback: σ_m = σ_w(σ_m)·⟨f⟩(κσ_m), κ = v_C|E − uB|L/(gap·u_e), by bisection on
+[0, σ_cap] inside each fixed-point step (v_C gas volume per coulomb, u_e = max(|u|, u_floor));
+in current mode J is known and σ_m = ½(⟨f⟩σ_in + √(⟨f⟩²σ_in² + 4⟨f⟩k₂)),
+k₂ = (dσ/dT)J²L/(2ρc_p u_e), capped at ⟨f⟩σ_cap. The void fractions are reported in any case.
+With gas the delivered Lorentz pressure may rise with u at low flow (more flow, less gas); the
+bisection fallback then finds one of the roots.
+
+End effects (``end_effects``)
+-----------------------------
+The current that fringes beyond the ends of the active length adds a leakage current
+I_end = N·σ·h·Λ·(E·gap), Λ(L/gap) → 2 ln 2/π (`sim.physics.end_effects`), which gives no
+thrust: the Lorentz force on the fringed current distribution equals the uniform value exactly
+when electrodes and field cover the same length. I = I_core + I_end; its Joule heat V_w·I_end is
+counted in the Joule loss. In current mode the total current fixes J through
+I/(Nh) = (L + Λ·gap)J + Λ·gap·σuB, solved by bisection on u. The end-loop current that
+circulates at zero electrode current (inside the dead band) is neglected.
+
 Energy identity
 ---------------
-With V = E·gap + sign(J)V_d and E·J = J²/σ + uBJ:
+With V = E·gap + V_g + sign(I)V_d and E·J = J²/σ + uBJ:
 
-    V·I = V_d|I| + (J²/σ)·Vol + Δp_L·Q,     Vol = N A L, Q = N A u,
+    V·I = (V_d|I| + V_g·I) + (J²/σ)·Vol + V_w·I_end + Δp_L·Q,   Vol = N A L, Q = N A u,
 
-i.e. electrical power = electrode loss + Joule loss + flow work. Multiplying the ducted energy
+i.e. electrical power = electrode loss (negative galvanic part when the pair aids the current)
++ Joule loss (core plus end fringing) + flow work. Multiplying the ducted energy
 equation by Q: flow work = ½ṁ(u_j² − V0²) + Δp_loss·Q, and ½ṁ(u_j² − V0²) =
 ṁ(u_j − V0)V0 + ½ṁ(u_j − V0)², so
 
@@ -131,8 +166,10 @@ forward ducted and disk flow. In reverse flow the same bookkeeping (wake = flow 
 friction) gives ½ṁ(w + V0)² + ṁV0²: the earth-frame kinetic energy of the forward jet plus the
 loss of reversing the captured stream (its ram head is destroyed at the stern intake and the jet
 is pushed out against the stagnation pressure at the bow). The efficiency chain is
-overall = (1 − V_d/V)·η_e·η_h·η_p with hydraulic efficiency η_h = (flow work − friction)/flow
-work and propulsive (Froude) efficiency η_p = T·V0/(T·V0 + wake) = 2V0/(V0 + u_j).
+η_overall = η_electrical·η_hydraulic with η_electrical = flow work/(V·I)
+(= (1 − V_d/V)·η_L without galvanic offset and end effects) and
+η_hydraulic = T·V0/flow work = η_duct·η_froude, η_duct = (flow work − friction)/flow work,
+η_froude = T·V0/(T·V0 + wake) = 2V0/(V0 + u_j).
 
 References
 ----------
@@ -149,6 +186,9 @@ Hemisphere.
 
 Mitchell, D. L., & Gubser, D. U. (1988). Magnetohydrodynamic ship propulsion with
 superconducting magnets. Journal of Superconductivity 1(4), 349–364. doi:10.1007/BF00618590.
+
+Electrolysis gas: Bruggeman (1935), Maxwell (1873); end fringing: conformal mapping of the
+channel (coplanar strips); see `sim.physics.gas` and `sim.physics.end_effects`.
 """
 
 from __future__ import annotations
@@ -165,7 +205,17 @@ from sim.physics.duct import (
     friction_terms_scalar,
 )
 from sim.physics.electrochem import FARADAY_C_MOL, gas_rates_mol_s
+from sim.physics.end_effects import end_leakage_factor
 from sim.physics.errors import ModelRangeError
+from sim.physics.gas import (
+    ATM_PA,
+    GAS_MODELS,
+    gas_volume_per_coulomb_m3_c,
+    mean_conductivity_ratio,
+    mean_conductivity_ratio_scalar,
+    mean_void_fraction,
+    outlet_void_fraction,
+)
 from sim.physics.seawater import WaterState
 
 U_FLOOR_M_S = 1e-3
@@ -208,14 +258,25 @@ class DuctThruster:
         inlet (Crane TP-410; Idelchik 1986; fluids ``entrance_sharp(method="Crane")``)
     k_nozzle : nozzle loss coefficient on the jet dynamic head [-]; default 0.02 (from memory,
         a smooth contraction)
-    nozzle_area_ratio : r = A_exit/A_duct, 0 < r ≤ 1.5 (r < 1 contracts) [-]; default 1
+    nozzle_area_ratio : r = A_exit/A_duct, 0 < r ≤ 1.5 (r < 1 contracts) [-]; default 1. Used
+        by the "ducted" jet model only: the "disk" model has no nozzle (the jet contracts
+        freely behind the duct), so it ignores r both for the jet and for the nozzle loss
     jet_model : "ducted" (intake and exit flush with the hull, jet at ambient pressure) or
         "disk" (short open duct in the free stream, Rankine–Froude actuator disk)
-    electrode_drop_v : decomposition voltage + overpotentials + galvanic offset [V]; default 2.0
-        (reversible Cl₂/H₂ cell ≈1.85 V at pH 8.1 from standard potentials, plus a few hundred
-        mV overpotential, from memory)
+    electrode_drop_v : decomposition voltage + overpotentials [V], ≥ 0, taken whichever way the
+        current flows; default 2.0 (reversible Cl₂/H₂ cell ≈1.85 V at pH 8.1 from standard
+        potentials, plus a few hundred mV overpotential, from memory). Not the galvanic offset
     chlorine_fraction : fraction of anodic charge evolving Cl₂ (rest O₂) [-]; default 1.0
     wall_friction : include Darcy wall friction (False gives the frictionless limit); default True
+    galvanic_offset_v : E_rest(electrode positive at V > 0) − E_rest(other electrode) [V] of a
+        dissimilar pair (`sim.physics.electrochem.galvanic_offset_v`); a fixed EMF that opposes
+        a positive voltage and aids a negative one. Default 0 (identical electrodes)
+    gas_model : conductivity reduction by electrolysis gas, "none" (default, σ unchanged),
+        "bruggeman" or "maxwell" (`sim.physics.gas`), solved jointly with the current
+    gas_slip_ratio : gas/water velocity ratio S of the bubbles along the duct [-]; default 1
+        (homogeneous flow)
+    end_effects : add the fringing current at the two ends of the active length
+        (`sim.physics.end_effects`), which draws current but gives no thrust; default False
     """
 
     gap_m: float
@@ -231,6 +292,10 @@ class DuctThruster:
     electrode_drop_v: float = 2.0
     chlorine_fraction: float = 1.0
     wall_friction: bool = True
+    galvanic_offset_v: float = 0.0
+    gas_model: str = "none"
+    gas_slip_ratio: float = 1.0
+    end_effects: bool = False
 
     def __post_init__(self) -> None:
         for name in ("gap_m", "height_m", "length_m"):
@@ -262,6 +327,13 @@ class DuctThruster:
             raise ModelRangeError("jet_model", self.jet_model, '"ducted" or "disk"', _MODEL)
         if not (0.0 <= self.chlorine_fraction <= 1.0):
             raise ModelRangeError("chlorine_fraction", self.chlorine_fraction, "[0, 1]", _MODEL)
+        if not math.isfinite(self.galvanic_offset_v):
+            raise ModelRangeError("galvanic_offset_v", self.galvanic_offset_v, "finite", _MODEL)
+        if self.gas_model not in GAS_MODELS:
+            allowed = " or ".join(f'"{m}"' for m in GAS_MODELS)
+            raise ModelRangeError("gas_model", self.gas_model, allowed, _MODEL)
+        if not (math.isfinite(self.gas_slip_ratio) and self.gas_slip_ratio > 0.0):
+            raise ModelRangeError("gas_slip_ratio", self.gas_slip_ratio, "finite and > 0", _MODEL)
 
     @property
     def area_per_channel_m2(self) -> float:
@@ -351,17 +423,35 @@ class ThrusterOperatingPoint:
     wake_loss_w : flow work − T·V0 − friction [W]
     flow_work_w : Δp_L·Q [W]
     useful_power_w : T·V0 [W]
-    load_factor : K = E/(uB) [-] (0 where uB = 0)
-    electrical_efficiency : η_e = uB/E = 1/K [-] (0 where E = 0)
-    hydraulic_efficiency : (flow work − friction)/flow work [-] (0 where flow work ≤ 0; negative
-        when the ram pressure does part of the work)
-    propulsive_efficiency : η_p = T·V0/(T·V0 + wake) = 2V0/(V0 + u_j) [-] (0 unless T·V0 > 0)
-    overall_efficiency : T·V0/(V·I) [-] (0 unless both are > 0)
+    load_factor : K = E/(uB) [-] (0 where uB = 0) (Way 1968)
+    eta_lorentz : η_L = uB/E = 1/K [-] (0 where E = 0): the share of the power E·J delivered to
+        the water of the active volume that becomes flow work (Way's n)
+    eta_electrical : η_el = flow work/(V·I) [-] (0 unless both > 0): electrical input to flow
+        work, after electrode, galvanic, Joule and end-fringing losses
+    eta_duct : η_d = (flow work − duct losses)/flow work [-] (0 where flow work ≤ 0; negative
+        when the ram pressure does part of the work); duct losses = inlet, wall and nozzle
+    eta_froude : η_F = T·V0/(flow work − duct losses) [-] (0 unless both > 0); equals the Froude
+        efficiency 2V0/(V0 + u_j) in forward ducted and actuator-disk flow
+    eta_hydraulic : η_h = T·V0/flow work = η_d·η_F [-] (0 unless both > 0)
+    eta_overall : η_o = T·V0/(V·I) = η_el·η_h [-] (0 unless both > 0)
     outlet_temperature_rise_k : Joule temperature rise through the duct [K]
-    sigma_mean_s_m : conductivity at the mean duct temperature [S/m]
+    sigma_mean_s_m : conductivity of the active volume at the mean duct temperature, lowered by
+        gas when ``gas_model`` is set [S/m]
     reynolds_number : ρ|u|D_h/μ [-]
-    h2_mol_s, cl2_mol_s, o2_mol_s : gas evolution rates [mol/s]
+    h2_mol_s, cl2_mol_s, o2_mol_s : gas evolution rates of the total current [mol/s]
     boiling_risk : T_in + ΔT ≥ 100 °C [bool]
+    end_current_a : fringing current at the channel ends, included in ``current_a`` [A] (0
+        unless ``end_effects``)
+    gas_void_fraction_mean : length-mean void fraction of the electrolysis gas [-] (reported
+        whatever ``gas_model``; homogeneous unless a slip ratio is set)
+    gas_void_fraction_outlet : void fraction at the outlet of the active length [-]
+    gas_conductivity_ratio : length-mean σ_mixture/σ_water [-] (1 when ``gas_model`` = "none")
+
+    Old names kept as read-only aliases (to be removed once callers have moved):
+    ``electrical_efficiency`` = ``eta_lorentz`` (uB/E, not flow work/V·I),
+    ``hydraulic_efficiency`` = ``eta_duct`` (not ``eta_hydraulic``),
+    ``propulsive_efficiency`` = ``eta_froude``, ``overall_efficiency`` = ``eta_overall``.
+    See docs/efficiencies.md.
     """
 
     duct_velocity_m_s: np.ndarray
@@ -381,10 +471,12 @@ class ThrusterOperatingPoint:
     flow_work_w: np.ndarray
     useful_power_w: np.ndarray
     load_factor: np.ndarray
-    electrical_efficiency: np.ndarray
-    hydraulic_efficiency: np.ndarray
-    propulsive_efficiency: np.ndarray
-    overall_efficiency: np.ndarray
+    eta_lorentz: np.ndarray
+    eta_electrical: np.ndarray
+    eta_duct: np.ndarray
+    eta_froude: np.ndarray
+    eta_hydraulic: np.ndarray
+    eta_overall: np.ndarray
     outlet_temperature_rise_k: np.ndarray
     sigma_mean_s_m: np.ndarray
     reynolds_number: np.ndarray
@@ -392,6 +484,30 @@ class ThrusterOperatingPoint:
     cl2_mol_s: np.ndarray
     o2_mol_s: np.ndarray
     boiling_risk: np.ndarray
+    end_current_a: np.ndarray
+    gas_void_fraction_mean: np.ndarray
+    gas_void_fraction_outlet: np.ndarray
+    gas_conductivity_ratio: np.ndarray
+
+    @property
+    def electrical_efficiency(self) -> np.ndarray:
+        """Old name of `eta_lorentz` (uB/E) [-]; kept as an alias."""
+        return self.eta_lorentz
+
+    @property
+    def hydraulic_efficiency(self) -> np.ndarray:
+        """Old name of `eta_duct` ((flow work − duct losses)/flow work) [-]; kept as an alias."""
+        return self.eta_duct
+
+    @property
+    def propulsive_efficiency(self) -> np.ndarray:
+        """Old name of `eta_froude` [-]; kept as an alias."""
+        return self.eta_froude
+
+    @property
+    def overall_efficiency(self) -> np.ndarray:
+        """Old name of `eta_overall` (T·V0/(V·I)) [-]; kept as an alias."""
+        return self.eta_overall
 
 
 # --------------------------------------------------------------------------------------------
@@ -431,10 +547,13 @@ class _Consts:
         "disk",
         "dt_cap",
         "eps",
+        "f_cl",
         "gap",
+        "gas",
         "h",
         "k_in",
         "k_noz",
+        "lam",
         "length",
         "mu",
         "n",
@@ -442,7 +561,10 @@ class _Consts:
         "rho",
         "sig_cap",
         "sig_in",
+        "slip",
         "vd",
+        "vg",
+        "vpc",
         "wall",
     )
 
@@ -458,9 +580,19 @@ class _Consts:
         self.b = th.b_tesla
         self.k_in = th.k_inlet
         self.k_noz = th.k_nozzle
-        self.r = th.nozzle_area_ratio
         self.disk = th.jet_model == "disk"
+        # the actuator disk has no nozzle: r is ignored for its jet and its nozzle loss alike
+        self.r = 1.0 if self.disk else th.nozzle_area_ratio
         self.vd = th.electrode_drop_v
+        self.vg = th.galvanic_offset_v
+        self.f_cl = th.chlorine_fraction
+        self.gas = th.gas_model
+        self.slip = th.gas_slip_ratio
+        # gas volume per coulomb at the duct's absolute pressure and inlet temperature [m³/C]
+        self.vpc = gas_volume_per_coulomb_m3_c(
+            th.chlorine_fraction, ATM_PA + max(w.p_dbar, 0.0) * 1e4, w.t_c
+        )
+        self.lam = end_leakage_factor(th.length_m, th.gap_m) if th.end_effects else 0.0
         self.wall = th.wall_friction
         self.rho = w.rho_kg_m3
         self.mu = w.mu_pa_s
@@ -514,8 +646,14 @@ def _hydraulic_step(k: _Consts, v0, p, c_em, u_prev, wall: bool = True):
     return np.where(valid, u_disk, u), valid
 
 
+GAS_BISECT = 80
+"""Iteration cap of the bisection for the gas-laden conductivity (voltage control)."""
+
+
 def _sigma_voltage(k: _Consts, e_s, u, thermal: bool):
     """Mean-duct conductivity for a given field and velocity (voltage control)."""
+    if k.gas != "none":
+        return _sigma_voltage_gas(k, e_s, u, thermal)
     if not thermal or k.beta == 0.0:
         return np.full(np.shape(u), k.sig_in)
     ue = np.maximum(np.abs(u), U_FLOOR_M_S)
@@ -525,8 +663,44 @@ def _sigma_voltage(k: _Consts, e_s, u, thermal: bool):
     return np.where(g < g_cap, k.sig_in / np.maximum(1.0 - g, 1e-300), k.sig_cap)
 
 
+def _sigma_voltage_gas(k: _Consts, e_s, u, thermal: bool):
+    """Mixture conductivity σ_m with electrolysis gas (and Joule heating), voltage control.
+
+    Root of σ_m = σ_w(σ_m)·⟨f⟩(κσ_m) on [0, σ_cap] by bisection, where the water conductivity
+    is σ_w = min(σ_in + Gσ_m, σ_cap) (Joule heat J²/σ_m with J = σ_m(E − uB)) and the outlet
+    gas-to-water ratio is a = κσ_m, κ = v_C|E − uB|L/(gap·u_e) (v_C gas volume per coulomb)."""
+    ue = np.maximum(np.abs(u), U_FLOOR_M_S)
+    y = e_s - u * k.b
+    kappa = k.vpc * np.abs(y) * k.length / (k.gap * ue)
+    if thermal and k.beta != 0.0:
+        g = k.beta * y * y * k.length / (2.0 * k.rho * k.cp * ue)
+        hi = np.full(np.shape(ue), k.sig_cap)
+    else:
+        g = np.zeros(np.shape(ue))
+        hi = np.full(np.shape(ue), k.sig_in)
+    lo = np.zeros(np.shape(ue))
+    for _ in range(GAS_BISECT):
+        mid = 0.5 * (lo + hi)
+        sw = np.minimum(k.sig_in + g * mid, k.sig_cap)
+        neg = mid - sw * mean_conductivity_ratio(kappa * mid, k.gas, k.slip) <= 0.0
+        lo = np.where(neg, mid, lo)
+        hi = np.where(neg, hi, mid)
+        if np.all(hi - lo <= 1e-15 * hi):
+            break
+    return 0.5 * (lo + hi)
+
+
 def _sigma_current(k: _Consts, j, u, thermal: bool):
     """Mean-duct conductivity for a given current density and velocity (current control)."""
+    if k.gas != "none":
+        # σ_m = f·σ_w, σ_w = σ_in + k2/σ_m  ⇒  σ_m² − fσ_in σ_m − f k2 = 0 (capped at f·σ_cap)
+        ue = np.maximum(np.abs(u), U_FLOOR_M_S)
+        f = mean_conductivity_ratio(k.vpc * np.abs(j) * k.length / (k.gap * ue), k.gas, k.slip)
+        if not thermal or k.beta == 0.0:
+            return f * k.sig_in
+        k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+        s = 0.5 * (f * k.sig_in + np.sqrt(f * f * k.sig_in * k.sig_in + 4.0 * f * k2))
+        return np.minimum(s, f * k.sig_cap)
     if not thermal or k.beta == 0.0:
         return np.full(np.shape(u), k.sig_in)
     ue = np.maximum(np.abs(u), U_FLOOR_M_S)
@@ -579,6 +753,11 @@ def _bracket_solve(k: _Consts, v0, e_s, dpl, thermal, u_guess):
     def resid(u, br):
         return _required_dp(k, v0, u, br) - _delivered_dp(k, u, e_s, dpl, thermal)
 
+    return _bisect_u(k, v0, resid, u_guess)
+
+
+def _bisect_u(k: _Consts, v0, resid, u_guess):
+    """Bisection on u of a residual resid(u, disk_branch) increasing in u on each branch."""
     br = np.zeros(v0.shape, dtype=bool)
     if k.disk:
         br = resid(0.5 * v0, np.ones_like(br)) <= 0.0
@@ -740,18 +919,19 @@ def operating_point(
     cmd = sv * cmd
     n_area_l = k.n * k.h * k.length
 
+    vg = sv * k.vg  # the galvanic EMF flips with the voltage in the mirrored problem
     if voltage_v is not None:
         volt = cmd
         # flow with J = 0 decides the sign of the current (g(J) is monotonic)
         u_pass, _, disk = _iterate(k, v0, dpl=np.zeros_like(v0), thermal=False)
-        net = volt - u_pass * k.b * k.gap
+        net = volt - vg - _open_circuit_emf(k, u_pass)
         s = np.where(net > k.vd, 1.0, np.where(net < -k.vd, -1.0, 0.0))
         u = u_pass.copy()
         sig = np.full_like(v0, k.sig_in)
         e_field = u_pass * k.b
         on = np.flatnonzero(s != 0.0)
         if on.size:
-            e_s = (volt[on] - s[on] * k.vd) / k.gap
+            e_s = (volt[on] - vg[on] - s[on] * k.vd) / k.gap
             u_on, sig_on, disk_on = _iterate(k, v0[on], e_s=e_s, thermal=thermal_feedback)
             u[on] = u_on
             sig[on] = sig_on
@@ -759,19 +939,80 @@ def operating_point(
             e_field[on] = e_s
         j = sig * (e_field - u * k.b)
         j = np.where(s == 0.0, 0.0, j)
-        current = j * n_area_l
+        i_end = np.where(s == 0.0, 0.0, _end_current(k, sig, e_field))
     else:
         current = cmd
-        j = current / n_area_l
-        u, _, disk = _iterate(k, v0, dpl=j * k.b * k.length, thermal=False)
-        sig = _sigma_current(k, j, u, thermal_feedback)
+        if k.lam == 0.0:
+            j = current / n_area_l
+            u, _, disk = _iterate(k, v0, dpl=j * k.b * k.length, thermal=False)
+            sig = _sigma_current(k, j, u, thermal_feedback)
+        else:
+            u, disk, j, sig = _solve_current_end(k, v0, current, thermal_feedback)
         e_field = j / sig + u * k.b
-        volt = np.where(j != 0.0, e_field * k.gap + np.sign(j) * k.vd, u * k.b * k.gap)
+        i_end = np.where(current != 0.0, _end_current(k, sig, e_field), 0.0)
+        volt = np.where(
+            j != 0.0,
+            e_field * k.gap + vg + np.sign(current) * k.vd,
+            _open_circuit_emf(k, u) + vg,
+        )
 
-    return _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape)
+    return _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape, i_end)
 
 
-def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape):
+def _open_circuit_emf(k: _Consts, u):
+    """Water voltage at zero electrode current, uB·gap (× L/(L + Λ·gap) with end fringing) [V].
+
+    With end effects the core current that balances the fringing current at zero electrode
+    current is neglected for the flow (it is small at the edge of the dead band)."""
+    if k.lam == 0.0:
+        return u * k.b * k.gap
+    return u * k.b * k.gap * k.length / (k.length + k.lam * k.gap)
+
+
+def _end_current(k: _Consts, sig, e_field):
+    """Fringing current of all channels' ends, N·σ·h·Λ·(E·gap) [A] (zero without end effects)."""
+    if k.lam == 0.0:
+        return np.zeros(np.shape(e_field))
+    return k.n * sig * k.h * k.lam * e_field * k.gap
+
+
+def _solve_current_end(k: _Consts, v0, current, thermal):
+    """Current control with end fringing: the core current density J is unknown.
+
+    The total current per unit height and channel, I/(N h) = (L + Λ·gap)J + Λ·gap·σ·uB, rises
+    monotonically with the duct velocity u, J being the Lorentz pressure needed for u over BL;
+    bisection on u. Returns (u, disk_mask, J, σ)."""
+    i_t = current / (k.n * k.h)
+    lg = k.length + k.lam * k.gap
+    if k.b == 0.0:
+        j = i_t / lg
+        u, _, disk = _iterate(k, v0, dpl=np.zeros_like(v0), thermal=False)
+        return u, disk, j, _sigma_current(k, j, u, thermal)
+    bl = k.b * k.length
+
+    def resid(u, br):
+        jj = _required_dp(k, v0, u, br) / bl
+        return lg * jj + k.lam * k.gap * _sigma_current(k, jj, u, thermal) * u * k.b - i_t
+
+    u0, _, disk0 = _iterate(k, v0, dpl=i_t / lg * bl, thermal=False)
+    u, disk = _bisect_u(k, v0, resid, u0)
+    # two finite-difference Newton steps polish u from the bisection tolerance to rounding
+    for _ in range(2):
+        du = np.maximum(np.abs(u) * 1e-7, 1e-9)
+        r0 = resid(u, disk)
+        den = resid(u + du, disk) - r0
+        step = np.where(den != 0.0, r0 * du / np.where(den != 0.0, den, 1.0), 0.0)
+        u = u - np.clip(step, -du, du)
+    # J from the current balance (exact in the command) rather than from the force balance
+    j = _required_dp(k, v0, u, disk) / bl
+    j = (i_t - k.lam * k.gap * _sigma_current(k, j, u, thermal) * u * k.b) / lg
+    # zero electrode current: the end loops are neglected, as in the voltage-mode dead band
+    off = i_t == 0.0
+    u, disk, j = np.where(off, u0, u), np.where(off, disk0, disk), np.where(off, 0.0, j)
+    return u, disk, j, _sigma_current(k, j, u, thermal)
+
+
+def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape, i_end):
     area_tot = k.n * k.area
     rho = k.rho
     q_flow = area_tot * u
@@ -779,11 +1020,12 @@ def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape)
     fwd = u >= 0.0
     u_jet = np.where(disk, 2.0 * u - v0, np.where(fwd, u / k.r, u))
     thrust = np.where(fwd, mdot * (u_jet - v0), mdot * (np.abs(u_jet) + v0))
-    current = j * k.n * k.h * k.length
+    i_core = j * k.n * k.h * k.length
+    current = i_core + i_end
     vol = area_tot * k.length
     p_el = volt * current
-    joule = j * j / sig * vol
-    electrode = k.vd * np.abs(current)
+    joule = j * j / sig * vol + e_field * k.gap * i_end
+    electrode = k.vd * np.abs(current) + sv * k.vg * current
     flow_work = j * k.b * k.length * q_flow
     # losses at the converged velocity (finite form of wall friction)
     if k.wall:
@@ -805,10 +1047,17 @@ def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape)
     froude_den = flow_work - friction
     eta_p = np.where((useful > 0.0) & (froude_den > 0.0), _safe_div(useful, froude_den), 0.0)
     eta_o = np.where((useful > 0.0) & (p_el > 0.0), _safe_div(useful, p_el), 0.0)
+    eta_el = np.where((flow_work > 0.0) & (p_el > 0.0), _safe_div(flow_work, p_el), 0.0)
+    eta_hyd = np.where((useful > 0.0) & (flow_work > 0.0), _safe_div(useful, flow_work), 0.0)
     ue = np.maximum(np.abs(u), U_FLOOR_M_S)
     d_t = j * j * k.length / (sig * rho * k.cp * ue)
     h2, cl2, o2 = gas_rates_mol_s(current, thruster.chlorine_fraction)
     boiling = water.t_c + d_t >= BOILING_C
+    # electrolysis gas of the core current in the active length (module docstring)
+    a_gas = k.vpc * np.abs(i_core) / (area_tot * ue)
+    void_mean = mean_void_fraction(a_gas, k.slip)
+    void_out = outlet_void_fraction(a_gas, k.slip)
+    f_gas = mean_conductivity_ratio(a_gas, k.gas, k.slip)
 
     def out(a, flip=False):
         a = np.asarray(a)
@@ -834,10 +1083,12 @@ def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape)
         flow_work_w=out(flow_work),
         useful_power_w=out(useful),
         load_factor=out(load),
-        electrical_efficiency=out(eta_e),
-        hydraulic_efficiency=out(eta_h),
-        propulsive_efficiency=out(eta_p),
-        overall_efficiency=out(eta_o),
+        eta_lorentz=out(eta_e),
+        eta_electrical=out(eta_el),
+        eta_duct=out(eta_h),
+        eta_froude=out(eta_p),
+        eta_hydraulic=out(eta_hyd),
+        eta_overall=out(eta_o),
         outlet_temperature_rise_k=out(d_t),
         sigma_mean_s_m=out(sig),
         reynolds_number=out(re),
@@ -845,6 +1096,10 @@ def _assemble(k, thruster, water, v0, sv, u, sig, j, e_field, volt, disk, shape)
         cl2_mol_s=out(cl2),
         o2_mol_s=out(o2),
         boiling_risk=out(boiling),
+        end_current_a=out(i_end, True),
+        gas_void_fraction_mean=out(void_mean),
+        gas_void_fraction_outlet=out(void_out),
+        gas_conductivity_ratio=out(f_gas),
     )
 
 
@@ -889,11 +1144,58 @@ def _step_scalar(k: _Consts, v0: float, p: float, c_em: float, u_prev: float, wa
 
 
 def _sigma_voltage_scalar(k: _Consts, e_s: float, u: float, thermal: bool) -> float:
+    if k.gas != "none":
+        return _sigma_voltage_gas_scalar(k, e_s, u, thermal)
     if not thermal or k.beta == 0.0:
         return k.sig_in
     y = e_s - u * k.b
     g = k.beta * y * y * k.length / (2.0 * k.rho * k.cp * max(abs(u), U_FLOOR_M_S))
     return k.sig_in / (1.0 - g) if g < 1.0 - k.sig_in / k.sig_cap else k.sig_cap
+
+
+def _sigma_voltage_gas_scalar(k: _Consts, e_s: float, u: float, thermal: bool) -> float:
+    """Scalar twin of `_sigma_voltage_gas` (same bisection, same bounds)."""
+    ue = max(abs(u), U_FLOOR_M_S)
+    y = e_s - u * k.b
+    kappa = k.vpc * abs(y) * k.length / (k.gap * ue)
+    if thermal and k.beta != 0.0:
+        g = k.beta * y * y * k.length / (2.0 * k.rho * k.cp * ue)
+        hi = k.sig_cap
+    else:
+        g = 0.0
+        hi = k.sig_in
+    lo = 0.0
+    for _ in range(GAS_BISECT):
+        mid = 0.5 * (lo + hi)
+        sw = min(k.sig_in + g * mid, k.sig_cap)
+        if mid - sw * mean_conductivity_ratio_scalar(kappa * mid, k.gas, k.slip) <= 0.0:
+            lo = mid
+        else:
+            hi = mid
+        if hi - lo <= 1e-15 * hi:
+            break
+    return 0.5 * (lo + hi)
+
+
+def _sigma_current_scalar(k: _Consts, j: float, u: float, thermal: bool) -> float:
+    """Scalar twin of `_sigma_current`."""
+    ue = max(abs(u), U_FLOOR_M_S)
+    if k.gas != "none":
+        f = mean_conductivity_ratio_scalar(k.vpc * abs(j) * k.length / (k.gap * ue), k.gas, k.slip)
+        if not thermal or k.beta == 0.0:
+            return f * k.sig_in
+        k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+        sg = 0.5 * (f * k.sig_in + math.sqrt(f * f * k.sig_in * k.sig_in + 4.0 * f * k2))
+        return min(sg, f * k.sig_cap)
+    if thermal and k.beta != 0.0:
+        k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+        return min(0.5 * (k.sig_in + math.sqrt(k.sig_in * k.sig_in + 4.0 * k2)), k.sig_cap)
+    return k.sig_in
+
+
+def _required_dp_scalar(k: _Consts, v0: float, u: float, br: bool) -> float:
+    """Scalar twin of `_required_dp` [Pa]."""
+    return _resid_scalar(k, v0, u, br, None, 0.0, False)
 
 
 def _resid_scalar(k: _Consts, v0: float, u: float, br: bool, e_s, dpl: float, thermal: bool):
@@ -918,19 +1220,27 @@ def _resid_scalar(k: _Consts, v0: float, u: float, br: bool, e_s, dpl: float, th
 
 
 def _bracket_scalar(k: _Consts, v0: float, e_s, dpl: float, thermal: bool, u_guess: float):
-    br = k.disk and _resid_scalar(k, v0, 0.5 * v0, True, e_s, dpl, thermal) <= 0.0
+    def resid(u, br):
+        return _resid_scalar(k, v0, u, br, e_s, dpl, thermal)
+
+    return _bisect_u_scalar(k, v0, resid, u_guess)
+
+
+def _bisect_u_scalar(k: _Consts, v0: float, resid, u_guess: float):
+    """Scalar twin of `_bisect_u`."""
+    br = k.disk and resid(0.5 * v0, True) <= 0.0
     span = abs(u_guess) + v0 + 1.0
     lo, hi = (0.5 * v0, 0.5 * v0 + span) if br else (-span, span)
     for _ in range(200):
-        if _resid_scalar(k, v0, lo, br, e_s, dpl, thermal) > 0.0:
+        if resid(lo, br) > 0.0:
             lo *= 2.0
-        elif _resid_scalar(k, v0, hi, br, e_s, dpl, thermal) < 0.0:
+        elif resid(hi, br) < 0.0:
             hi *= 2.0
         else:
             break
     for _ in range(MAX_BISECT):
         mid = 0.5 * (lo + hi)
-        if _resid_scalar(k, v0, mid, br, e_s, dpl, thermal) <= 0.0:
+        if resid(mid, br) <= 0.0:
             lo = mid
         else:
             hi = mid
@@ -1022,37 +1332,55 @@ def thrust_and_current(
     volt = float(voltage_v)
     if not (math.isfinite(v0) and math.isfinite(volt)):
         raise ModelRangeError("speed/voltage", (v0, volt), "finite numbers", _MODEL)
-    k = _Consts(thruster, water)
-    sv = -1.0 if v0 < 0.0 else 1.0
-    v0 = abs(v0)
-    volt *= sv
-    u_pass, _, disk_pass = _iterate_scalar(k, v0, None, 0.0, False)
-    net = volt - u_pass * k.b * k.gap
-    if net > k.vd:
-        s = 1.0
-    elif net < -k.vd:
-        s = -1.0
-    else:
-        return sv * _thrust_scalar(k, v0, u_pass, disk_pass), 0.0, sv * u_pass
-    e_s = (volt - s * k.vd) / k.gap
-    u, sig, disk = _iterate_scalar(k, v0, e_s, 0.0, thermal_feedback)
-    j = sig * (e_s - u * k.b)
-    current = j * k.n * k.h * k.length
-    return sv * _thrust_scalar(k, v0, u, disk), sv * current, sv * u
-
-
-def _thrust_scalar(k: _Consts, v0: float, u: float, disk: bool) -> float:
-    mdot = k.rho * k.n * k.area * u
-    if disk:
-        return mdot * (2.0 * u - 2.0 * v0)
-    if u >= 0.0:
-        return mdot * (u / k.r - v0)
-    return mdot * (-u + v0)
+    p = scalar_point(
+        _Consts(thruster, water),
+        v0,
+        voltage_v=volt,
+        thermal_feedback=thermal_feedback,
+        chlorine_fraction=thruster.chlorine_fraction,
+    )
+    return p.thrust_n, p.current_a, p.duct_velocity_m_s
 
 
 # --------------------------------------------------------------------------------------------
 # full scalar operating point for ODE right-hand sides
 # --------------------------------------------------------------------------------------------
+
+
+def _open_circuit_emf_scalar(k: _Consts, u: float) -> float:
+    """Scalar twin of `_open_circuit_emf` [V]."""
+    if k.lam == 0.0:
+        return u * k.b * k.gap
+    return u * k.b * k.gap * k.length / (k.length + k.lam * k.gap)
+
+
+def _solve_current_end_scalar(k: _Consts, v0: float, current: float, thermal: bool):
+    """Scalar twin of `_solve_current_end`: (u, disk, J, σ)."""
+    i_t = current / (k.n * k.h)
+    lg = k.length + k.lam * k.gap
+    if k.b == 0.0:
+        j = i_t / lg
+        u, _, disk = _iterate_scalar(k, v0, None, 0.0, False)
+        return u, disk, j, _sigma_current_scalar(k, j, u, thermal)
+    bl = k.b * k.length
+
+    def resid(u, br):
+        jj = _required_dp_scalar(k, v0, u, br) / bl
+        return lg * jj + k.lam * k.gap * _sigma_current_scalar(k, jj, u, thermal) * u * k.b - i_t
+
+    u0, _, disk0 = _iterate_scalar(k, v0, None, i_t / lg * bl, False)
+    if i_t == 0.0:  # zero electrode current: end loops neglected, as in the dead band
+        return u0, disk0, 0.0, _sigma_current_scalar(k, 0.0, u0, thermal)
+    u, disk = _bisect_u_scalar(k, v0, resid, u0)
+    for _ in range(2):  # as in `_solve_current_end`
+        du = max(abs(u) * 1e-7, 1e-9)
+        r0 = resid(u, disk)
+        den = resid(u + du, disk) - r0
+        step = r0 * du / den if den != 0.0 else 0.0
+        u = u - min(max(step, -du), du)
+    j = _required_dp_scalar(k, v0, u, disk) / bl
+    j = (i_t - k.lam * k.gap * _sigma_current_scalar(k, j, u, thermal) * u * k.b) / lg
+    return u, disk, j, _sigma_current_scalar(k, j, u, thermal)
 
 
 class ScalarPoint(NamedTuple):
@@ -1121,28 +1449,36 @@ def scalar_point(
     sv = -1.0 if v0 < 0.0 else 1.0
     v0 = abs(v0)
     n_area_l = k.n * k.h * k.length
+    vg = sv * k.vg
+    i_end = 0.0
     if voltage_v is not None:
         volt = sv * float(voltage_v)
         u_pass, _, disk = _iterate_scalar(k, v0, None, 0.0, False)
-        net = volt - u_pass * k.b * k.gap
+        net = volt - vg - _open_circuit_emf_scalar(k, u_pass)
         s = 1.0 if net > k.vd else (-1.0 if net < -k.vd else 0.0)
         if s == 0.0:
             u, sig, j, e_field = u_pass, k.sig_in, 0.0, u_pass * k.b
         else:
-            e_field = (volt - s * k.vd) / k.gap
+            e_field = (volt - vg - s * k.vd) / k.gap
             u, sig, disk = _iterate_scalar(k, v0, e_field, 0.0, thermal_feedback)
             j = sig * (e_field - u * k.b)
+            if k.lam != 0.0:
+                i_end = k.n * sig * k.h * k.lam * e_field * k.gap
     else:
-        j = sv * float(current_a) / n_area_l
-        u, _, disk = _iterate_scalar(k, v0, None, j * k.b * k.length, False)
-        if thermal_feedback and k.beta != 0.0:
-            ue = max(abs(u), U_FLOOR_M_S)
-            k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
-            sig = min(0.5 * (k.sig_in + math.sqrt(k.sig_in * k.sig_in + 4.0 * k2)), k.sig_cap)
+        cur = sv * float(current_a)
+        if k.lam == 0.0:
+            j = cur / n_area_l
+            u, _, disk = _iterate_scalar(k, v0, None, j * k.b * k.length, False)
+            sig = _sigma_current_scalar(k, j, u, thermal_feedback)
         else:
-            sig = k.sig_in
+            u, disk, j, sig = _solve_current_end_scalar(k, v0, cur, thermal_feedback)
         e_field = j / sig + u * k.b
-        volt = e_field * k.gap + math.copysign(k.vd, j) if j != 0.0 else u * k.b * k.gap
+        if k.lam != 0.0 and cur != 0.0:
+            i_end = k.n * sig * k.h * k.lam * e_field * k.gap
+        if j != 0.0:
+            volt = e_field * k.gap + vg + math.copysign(k.vd, cur)
+        else:
+            volt = _open_circuit_emf_scalar(k, u) + vg
     # assemble (as `_assemble`)
     rho = k.rho
     q_flow = k.n * k.area * u
@@ -1150,10 +1486,11 @@ def scalar_point(
     fwd = u >= 0.0
     u_jet = 2.0 * u - v0 if disk else (u / k.r if fwd else u)
     thrust = mdot * (u_jet - v0) if fwd else mdot * (abs(u_jet) + v0)
-    current = j * n_area_l
+    i_core = j * n_area_l
+    current = i_core + i_end
     p_el = volt * current
-    joule = j * j / sig * (k.n * k.area * k.length)
-    electrode = k.vd * abs(current)
+    joule = j * j / sig * (k.n * k.area * k.length) + e_field * k.gap * i_end
+    electrode = k.vd * abs(current) + vg * current
     flow_work = j * k.b * k.length * q_flow
     if k.wall:
         fre = friction_terms_scalar(rho * abs(u) * k.d_h / k.mu, k.eps, k.alpha)[0]
