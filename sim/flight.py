@@ -45,7 +45,7 @@ class _LogObserver(RunObserver):
     def samples(self, rows):
         cols = {k: [r[k] for r in rows] for k in rows[0]}
         self.w.append(cols)
-        self.w.flush()
+        self.w.maybe_flush()
         self.inner.samples(rows)
 
     def event(self, time_s, kind, leg, message):

@@ -249,11 +249,14 @@ def test_variants_keys_are_the_ones_the_reader_accepts(tmp_path):
 
 
 def test_steady_columns_are_the_ones_the_command_prints():
-    from sim import cli
+    from sim.cli import steady
 
-    tree = ast.parse(inspect.getsource(cli.cmd_steady))
+    tree = ast.parse(inspect.getsource(steady.cmd_steady))
+    def default(e):  # the nautical default of `"speed m/s" if metric else "speed kn"`
+        return ast.literal_eval(e.orelse if isinstance(e, ast.IfExp) else e)
+
     cols = next(
-        [ast.literal_eval(e) for e in node.value.elts]
+        [default(e) for e in node.value.elts]
         for node in ast.walk(tree)
         if isinstance(node, ast.Assign)
         and any(isinstance(t, ast.Name) and t.id == "cols" for t in node.targets)

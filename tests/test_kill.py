@@ -74,7 +74,9 @@ def _start(tmp_path: Path) -> tuple[subprocess.Popen, Path, Path]:
     return proc, out, tmp_path / "long.incomplete.h5"
 
 
-def _wait_for_samples(proc: subprocess.Popen, incomplete: Path, n_min: int = 3) -> int:
+def _wait_for_samples(
+    proc: subprocess.Popen, incomplete: Path, n_min: int = 3, legs_min: int = 0
+) -> int:
     deadline = time.monotonic() + 60.0
     while time.monotonic() < deadline:
         assert proc.poll() is None, proc.communicate()
@@ -82,7 +84,8 @@ def _wait_for_samples(proc: subprocess.Popen, incomplete: Path, n_min: int = 3) 
             try:
                 with h5py.File(incomplete, "r") as f:
                     n = len(f["series/time_s"])
-                if n >= n_min:
+                    legs = len(f["legs"]) if "legs" in f else 0
+                if n >= n_min and legs >= legs_min:
                     return n
             except (OSError, KeyError):
                 pass  # not there yet
@@ -107,8 +110,9 @@ def _check_incomplete(path: Path, n_seen: int) -> h5py.File:
 
 def test_kill_9_leaves_a_readable_incomplete_log(tmp_path):
     proc, out, incomplete = _start(tmp_path)
-    n_seen = _wait_for_samples(proc, incomplete)
-    time.sleep(0.3)  # let it get on with the long leg: the kill lands mid-run
+    # the log flushes by wall clock (every 2 s): wait until a snapshot shows the long leg begun,
+    # so the kill lands mid-run
+    n_seen = _wait_for_samples(proc, incomplete, legs_min=3)
     proc.send_signal(signal.SIGKILL)
     proc.communicate(timeout=30)
     assert proc.returncode == -signal.SIGKILL

@@ -3,11 +3,12 @@
 The pack's equivalent circuit (state of charge, RC voltages and lumped battery temperature,
 :mod:`sim.physics.battery`) is integrated at a constant terminal power until the first of: the
 state of charge reaches its minimum, the pack can no longer deliver the demanded power within its
-limits (:meth:`sim.engine.model.VesselModel.pack_power_limit_w`: cells at their minimum voltage
-plus the drive's under-voltage margin, the pack current rating, the circuit's power maximum), or
-the battery reaches its temperature limit. So voltage sag at the demanded power is accounted
-for, not just stored energy ÷ power (:func:`stored_energy_j`). That power limit is the moment
-the drive would start to fold back in a time-domain run, so the speed could no longer be held.
+limits (:func:`sim.physics.battery.pack_power_limit_w`, the engine's own limit: cells at their
+minimum voltage plus the drive's under-voltage margin, the pack current rating, the circuit's
+power maximum), or the battery reaches its temperature limit. So voltage sag at the demanded
+power is accounted for, not just stored energy ÷ power (:func:`stored_energy_j`). That power
+limit is the moment the drive would start to fold back in a time-domain run, so the speed could
+no longer be held.
 """
 
 from __future__ import annotations
@@ -18,7 +19,6 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.integrate import solve_ivp
 
-from sim.engine.model import VesselModel
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
 
@@ -87,7 +87,9 @@ def _rc_tuple(pack: bat.Pack, v_rc) -> tuple[float, ...]:
 def _power_limit_w(plant: Plant, soc: float, v_rc: float, temp_c: float) -> float:
     """Greatest pack terminal power the drive may draw [W] at state of charge ``soc`` [-], summed
     RC voltage ``v_rc`` [V] and battery temperature ``temp_c`` [°C]."""
-    return VesselModel(plant).pack_power_limit_w(soc, v_rc, temp_c)
+    return bat.pack_power_limit_w(
+        plant.pack, soc, v_rc, temp_c, undervoltage_margin_v=plant.undervoltage_margin_v
+    )
 
 
 def pack_endurance(
@@ -133,7 +135,7 @@ def pack_endurance(
     Integrates dSOC/dt = −I/(3600 Q), dV_k/dt = I/C_k − V_k/(R_k C_k) and the lumped thermal
     balance m c_p dT/dt = Q_heat − UA (T − T_water), with I solving I (OCV − ΣV_k − I R0) = P at
     every instant (:func:`sim.physics.battery.solve_current_for_power`). It stops when SOC
-    reaches ``soc_min``, P exceeds :meth:`VesselModel.pack_power_limit_w` or the battery
+    reaches ``soc_min``, P exceeds :func:`~sim.physics.battery.pack_power_limit_w` or the battery
     reaches ``temp_max_c``. With R0 = R_k = 0
     this reduces to t = 3600 Q ∫ OCV dSOC / P, the stored energy over the power.
 

@@ -15,6 +15,7 @@ from pathlib import Path
 
 from sim import __version__
 from sim.analysis import plots
+from sim.analysis.log_range import range_from_log
 from sim.analysis.tables import (
     Table,
     leg_table,
@@ -120,8 +121,6 @@ def report_html(
 
     range_html = ""
     if range_estimate:
-        from sim.analysis.reach import range_from_log
-
         try:
             lr = range_from_log(log, reserve_soc=reserve_soc)
             st, left = log_range_table(lr, u)

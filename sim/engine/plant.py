@@ -167,6 +167,7 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         jet_model=spec.jet,
         electrode_drop_v=drop,
         chlorine_fraction=spec.chlorine_fraction,
+        galvanic_offset_v=pair.galvanic_offset_v,
     )
     alpha, tmax = 0.0, math.inf
     if spec.magnet == "permanent":

@@ -32,6 +32,7 @@ from pydantic import AfterValidator, BaseModel, BeforeValidator
 from pydantic_core import PydanticUndefined
 
 from sim.io import schema
+from sim.io.files import MAX_BASE_DEPTH
 from sim.io.units import KINDS
 
 __all__ = [
@@ -384,8 +385,6 @@ def _walk(
 
 
 def _vessel_extra() -> _Extra:
-    from sim.io.files import MAX_BASE_DEPTH
-
     extends = KeyInfo(
         path="extends",
         unit="text (path)",

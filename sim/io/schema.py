@@ -22,6 +22,9 @@ from pydantic import (
 from pydantic_core import PydanticCustomError
 
 from sim.io.units import KINDS, UnitParseError, to_si
+from sim.physics.battery import CELL_SETS
+from sim.physics.electrochem import ELECTRODE_MATERIALS
+from sim.physics.magnets import NDFEB_GRADES
 
 
 def _fmt(x: float, unit: str) -> str:
@@ -146,20 +149,14 @@ def known_name(what: str, names: Callable[[], Iterable[str]], *, upper: bool = F
 
 
 def _cell_sets():
-    from sim.physics.battery import CELL_SETS
-
     return CELL_SETS
 
 
 def _electrodes():
-    from sim.physics.electrochem import ELECTRODE_MATERIALS
-
     return ELECTRODE_MATERIALS
 
 
 def _grades():
-    from sim.physics.magnets import NDFEB_GRADES
-
     return NDFEB_GRADES
 
 
