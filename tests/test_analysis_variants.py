@@ -132,7 +132,10 @@ def test_invalid_variant_is_reported_before_anything_flies(tmp_path):
     ]
     with pytest.raises(InputError) as err:
         va.compare_variants(scen, bad, jobs=1)
-    assert {p.key for p in err.value.problems} >= {"thruster[0].gap", "battery.paralel"}
+    # each problem names the setting that caused it and its variant (issue 10)
+    text = [str(p) for p in err.value.problems]
+    assert any("thruster.0.gap" in t and "neg" in t and "out of range" in t for t in text)
+    assert any("battery.paralel" in t and "typo" in t and "unknown key" in t for t in text)
 
 
 def test_parallel_runs_keep_input_order_and_match_serial_runs(tmp_path):

@@ -9,6 +9,7 @@ from pathlib import Path
 
 from sim.cli import options
 from sim.cli.core import (
+    EXIT_INTERRUPT,
     EXIT_NUMERIC,
     EXIT_OK,
     OptionError,
@@ -18,6 +19,19 @@ from sim.cli.core import (
     print_table,
 )
 from sim.safety import gas_caution
+
+RANK_CHOICES = (
+    "auto",
+    "distance",
+    "energy",
+    "duration",
+    "endurance",
+    "end-soc",
+    "efficiency",
+    "speed",
+)
+"""``--rank-by`` values (:data:`sim.analysis.variants.RANK_CHOICES`; kept here so that
+``brinebolt --help`` imports no numpy)."""
 
 
 def register(sub) -> None:
@@ -51,9 +65,12 @@ def register(sub) -> None:
     v.add_argument(
         "--rank-by",
         default="auto",
-        choices=["auto", "distance", "energy", "duration", "efficiency", "speed"],
-        help="auto: least energy per distance when all complete the mission, "
-        "else greatest distance",
+        choices=RANK_CHOICES,
+        help="measure to rank by, among the comparable variants (those that flew the same "
+        "legs, each to its own end condition; the others are listed below them, marked): "
+        "distance, energy (per distance), duration or endurance (time under way), end-soc "
+        "(end state of charge), efficiency (mean overall), speed (mean); auto: least energy "
+        "per distance when they completed the mission as planned, else greatest distance",
     )
     v.add_argument(
         "--logs", metavar="DIR", help="also write each variant's HDF5 log and vessel file to DIR"
@@ -103,28 +120,33 @@ def cmd_versus(args) -> int:
         raise OptionError(f"option --jobs = {args.jobs}: allowed: 1 or more")
     sample = options.parse_time(args.sample, "--sample")
 
+    # every variant is loaded and checked (errors and warnings, as `check` does) before
+    # anything flies; an InputError ends the command here
+    prepared = va.prepare_variants(scenario, variants, logs_dir=args.logs, sample_s=sample)
+    _print_warnings(con, prepared.warnings, len(variants))
+
     def done(run) -> None:
-        what = esc(run.ending_reason) if run.ok else f"[red]failed[/]: {esc(run.error)}"
-        con.print(f"  flown  {esc(run.label)} — {what} [dim]({run.wall_time_s:.1f} s)[/]")
+        what = esc(run.outcome) if run.ok else f"[red]failed[/]: {esc(run.error)}"
+        con.print(
+            f"  flown  {esc(run.label)} — {what} [dim]({run.wall_time_s:.1f} s)[/]", soft_wrap=True
+        )
 
     cores = args.jobs or min(os.cpu_count() or 1, len(variants))
     con.print(f"flying {len(variants)} variant(s) of {esc(scenario)} on {cores} core(s)…")
-    comp = va.compare_variants(
-        scenario,
-        variants,
-        jobs=args.jobs,
-        logs_dir=args.logs,
-        sample_s=sample,
-        rank_by=args.rank_by,
-        title=title,
-        progress=done,
-    )
+    try:
+        comp = va.fly_variants(
+            prepared, jobs=args.jobs, rank_by=args.rank_by, title=title, progress=done
+        )
+    except va.VariantsInterrupted as exc:
+        _print_interrupted(console(stderr=True), exc)
+        return EXIT_INTERRUPT
     print_table(
         con,
         comparison_table(comp, args.units),
         f"{comp.title} — ranked ({comp.rank_basis})",
         left=(1,),
     )
+    _print_comparability(con, comp)
     flown = [r for r in comp.runs if r.ok]
     if flown:
         most = max(flown, key=lambda r: r.value("cl2_total_mol"))
@@ -132,7 +154,9 @@ def cmd_versus(args) -> int:
         con.print(f"[dim]{esc(gas_caution(most.summary))}[/]")
     print_cautions(con)
     if args.logs:
-        con.print(f"logs and variant vessel files in [bold]{esc(args.logs)}[/]")
+        con.print(f"logs and variant vessel files in [bold]{esc(args.logs)}[/]:")
+        for label, log in zip(prepared.labels, prepared.log_paths, strict=True):
+            con.print(f"  {esc(label)}: {esc(Path(log).name)}", soft_wrap=True)
     if not args.no_plots and any(r.ok for r in comp.runs):
         from sim.analysis.plots import overlay_figure
 
@@ -140,3 +164,56 @@ def cmd_versus(args) -> int:
             overlay_figure(comp, args.units), Path(args.plots) / stem, args.pdf, con
         )
     return EXIT_OK if all(r.ok for r in comp.runs) else EXIT_NUMERIC
+
+
+def _print_warnings(con, warnings, n_variants: int) -> None:
+    """Load-time warnings labelled by variant; a warning every variant has is printed once."""
+    if not warnings:
+        return
+    texts: dict[str, list[str]] = {}
+    for label, p in warnings:
+        texts.setdefault(str(p), [])
+        if label not in texts[str(p)]:
+            texts[str(p)].append(label)
+    for text, labels in texts.items():
+        who = "every variant" if len(labels) == n_variants > 1 else ", ".join(labels)
+        con.print(f"[yellow]warning[/] {esc(f'[{who}]')} {esc(text)}", soft_wrap=True)
+
+
+def _print_comparability(con, comp) -> None:
+    """Which variants were ranked against each other, and how the others ended (legs cut short
+    and by what, legs not flown)."""
+    others = [r for r in comp.ranked if r.ok and not comp.is_comparable(r)]
+    cut = [r for r in comp.ranked if r.ok and comp.is_comparable(r) and r.cut_short]
+    for r in cut:
+        con.print(f"[dim]{esc(r.label)}: {esc(r.outcome)}[/]", soft_wrap=True)
+    if not others:
+        return
+    rank = {r.index: k for k, r in enumerate(comp.ranked, start=1)}
+    con.print(
+        f"[bold yellow]not comparable[/] (ranked below the {len(comp.comparable)} that flew "
+        "the same legs, each to its own end): ",
+        soft_wrap=True,
+    )
+    for r in others:
+        con.print(f"  {rank[r.index]}. {esc(r.label)}: {esc(r.outcome)}", soft_wrap=True)
+
+
+def _print_interrupted(err, exc) -> None:
+    """One clear message after Ctrl-C: what finished, and every partial log kept."""
+    err.print("[bold red]interrupted[/]: nothing more is flown.", soft_wrap=True)
+    if exc.finished_logs:
+        err.print(
+            "Logs of the variants that finished: "
+            + ", ".join(f"[bold]{esc(p)}[/]" for p in exc.finished_logs),
+            soft_wrap=True,
+        )
+    if exc.partial_logs:
+        err.print(
+            "Partial logs kept, marked incomplete (open them with `brinebolt reach` or "
+            "`brinebolt report`, or plain h5py): "
+            + ", ".join(f"[bold]{esc(p)}[/]" for p in exc.partial_logs),
+            soft_wrap=True,
+        )
+    elif not exc.finished_logs:
+        err.print("No logs were being written (use --logs DIR to keep them).", soft_wrap=True)
