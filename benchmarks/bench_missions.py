@@ -114,12 +114,16 @@ def run_case(label: str, path: Path, target_s: float | None, n: int) -> dict:
     }
 
 
-def rss_child() -> None:
+def rss_child(write_log: bool) -> None:
     """Child process: fly the 24-hour mission at 1 s samples, print the peak RSS [MiB]."""
     base = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
     with tempfile.TemporaryDirectory() as d:
         p = hold_file(Path(d), **RSS_CASE)
-        out = api.run_scenario(api.load_scenario(p), out=Path(d) / "log.h5")
+        loaded = api.load_scenario(p)
+        if write_log:
+            out = api.run_scenario(loaded, out=Path(d) / "log.h5")
+        else:
+            out = api.run_scenario(loaded, write_log=False)
         peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
         r = out.result
         print(
@@ -134,11 +138,11 @@ def mark(ok: bool) -> str:
 
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    ap.add_argument("--rss-child", action="store_true", help=argparse.SUPPRESS)
+    ap.add_argument("--rss-child", choices=("log", "nolog"), help=argparse.SUPPRESS)
     ap.add_argument("-n", type=int, default=3, help="timed repeats after the warm-up (best of)")
     args = ap.parse_args()
     if args.rss_child:
-        rss_child()
+        rss_child(args.rss_child == "log")
         return
     with tempfile.TemporaryDirectory() as d:
         folder = Path(d)
@@ -182,19 +186,21 @@ def main() -> None:
             f"{TARGET_SPEEDUP:g}x]   engine {1e3 * r['t_eng']:8.1f} ms  "
             f"[{mark(r['t_eng'] <= r['target_s'])} ≤ {1e3 * r['target_s']:g} ms]"
         )
-    proc = subprocess.run(
-        [sys.executable, str(Path(__file__).resolve()), "--rss-child"],
-        capture_output=True,
-        text=True,
-        check=True,
-    )
-    peak, base, n_rows, dur, ending = proc.stdout.split()
-    print(
-        f"\npeak RSS, {RSS_CASE['hours']}-h hold of the Glasswort at {RSS_CASE['speed']}, "
-        f"{RSS_CASE['sample']} samples, HDF5 log written ({n_rows} rows, {float(dur) / 3600:.1f} "
-        f"h, {ending.replace('_', ' ')}): {float(peak):.0f} MiB (after imports {float(base):.0f}"
-        f" MiB)  [{mark(float(peak) <= TARGET_RSS_MB)} ≤ {TARGET_RSS_MB:g} MB]"
-    )
+    for how in ("log", "nolog"):
+        proc = subprocess.run(
+            [sys.executable, str(Path(__file__).resolve()), "--rss-child", how],
+            capture_output=True,
+            text=True,
+            check=True,
+        )
+        peak, base, n_rows, dur, ending = proc.stdout.split()
+        what = "HDF5 log written" if how == "log" else "no log"
+        print(
+            f"\npeak RSS, {RSS_CASE['hours']}-h hold of the Glasswort at {RSS_CASE['speed']}, "
+            f"{RSS_CASE['sample']} samples, {what} ({n_rows} rows, {float(dur) / 3600:.1f} h, "
+            f"{ending.replace('_', ' ')}): {float(peak):.0f} MiB (after imports "
+            f"{float(base):.0f} MiB)  [{mark(float(peak) <= TARGET_RSS_MB)} ≤ {TARGET_RSS_MB:g} MB]"
+        )
 
 
 if __name__ == "__main__":

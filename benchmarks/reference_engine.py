@@ -398,12 +398,14 @@ def run_reference(
     method: str = "LSODA",
     rtol: float = 1e-6,
     sample_s: float | None = None,
+    chunk_s: float = math.inf,
 ) -> RefResult:
     """Fly a mission with the obvious implementation. Returns the end state and counts.
 
     With ``sample_s`` [s] the algebraic outputs (thrust, pack power and current) are also
     evaluated on the sample grid from the dense output, as the engine does for its log (kept
-    in ``RefResult.rows``), so that wall times compare like with like."""
+    in ``RefResult.rows``), so that wall times compare like with like. ``chunk_s`` [s] ends
+    every solve_ivp call after at most that long (to measure what restarts cost)."""
     m = ReferenceModel(plant)
     st = mission.start
     y = np.zeros(m.size)
@@ -466,7 +468,7 @@ def run_reference(
         else:
             leg_end = leg_t0 + leg.duration_s if leg.duration_s is not None else math.inf
             nxt = schedule[0][0] if schedule else math.inf
-            horizon = min(t_lim, leg_end, nxt)
+            horizon = min(t_lim, leg_end, nxt, t + chunk_s)
             sol = solve_ivp(
                 m.rhs,
                 (t, horizon),
