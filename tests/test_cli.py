@@ -133,14 +133,14 @@ def test_invalid_utf8(capsys, tmp_path):
 def test_unreadable_file(capsys, tmp_path, monkeypatch):
     p = tmp_path / "locked.toml"
     p.write_text("[vessel]\n", encoding="utf-8")
-    real = Path.read_bytes
+    real = os.open
 
-    def refuse(self):  # a permission problem, whoever runs the tests (root reads anything)
-        if self.name == "locked.toml":
-            raise PermissionError(13, "Permission denied", str(self))
-        return real(self)
+    def refuse(path, *args, **kw):  # a permission problem, whoever runs (root reads anything)
+        if Path(path).name == "locked.toml":
+            raise PermissionError(13, "Permission denied", str(path))
+        return real(path, *args, **kw)
 
-    monkeypatch.setattr(Path, "read_bytes", refuse)
+    monkeypatch.setattr(os, "open", refuse)
     code, text = run(capsys, "run", str(p))
     assert code == 2
     assert "locked.toml: cannot read the file: permission denied" in text
