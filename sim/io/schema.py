@@ -666,8 +666,8 @@ class LegSpec(_Strict):
     """Command: hold this total electrical power into all thruster units together (V·I at the
     electrodes summed over every unit of every design), not per unit. The drive sets one electrode
     voltage for all units to reach it, at most drive.max_voltage. The pack supplies it ÷
-    drive.efficiency plus the hotel loads, so compare it with the 'thruster kW' column of `brinebolt
-    steady`, not with 'pack kW'.
+    drive.efficiency plus the hotel loads, so compare it with the 'thruster power kW' column of
+    `brinebolt steady`, not with 'pack power kW'.
 
     Default: not set (exactly one of voltage, current, power, speed per leg)."""
     speed: quantity("speed", ge=0, le=40, optional=True) = None
