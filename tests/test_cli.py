@@ -584,9 +584,11 @@ def test_python_dash_m_reports_option_errors_as_user_errors(tmp_path):
 
 def test_readme_documents_the_exit_codes_and_output_naming():
     readme = (ROOT / "README.md").read_text(encoding="utf-8")
-    for code in ("| 0 |", "| 1 |", "| 2 |", "| 3 |", "| 4 |", "| 130 |"):
+    for code in ("| 0 |", "| 1 |", "| 2 |", "| 3 |", "| 4 |", "| 5 |", "| 130 |", "| 143 |"):
         assert code in readme
     assert "-2.h5" in readme and "--force" in readme and "--enclosed-volume" in readme
+    assert "--format text|csv|json" in readme and "--output FILE" in readme
+    assert "--soc-min 0.1" in readme
 
 
 @pytest.fixture(autouse=True)

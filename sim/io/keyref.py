@@ -219,6 +219,8 @@ def _apply_validator(shape: _Shape, fn, where: str) -> None:
         case = " (case ignored)" if c["upper"] else ""
         article = "an" if c["what"][:1] in "aeiou" else "a"
         shape.allowed.append(f"{article} {c['what']}{case}: {names}")
+    elif fn is schema._no_brackets:
+        shape.allowed.append("text without `[` or `]`")
     elif fn is schema._added_mass:
         shape.kind = "mass"
         shape.unit = "kg, or number"

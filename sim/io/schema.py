@@ -330,13 +330,24 @@ class TableHull(_Strict):
 Hull = Annotated[SubmergedHull | DisplacementHull | TableHull, Field(discriminator="model")]
 
 
+def _no_brackets(name: str) -> str:
+    if "[" in name or "]" in name:
+        raise PydanticCustomError(
+            "name_brackets",
+            "a thruster name cannot hold '[' or ']' (the log's per-thruster columns are "
+            "written thrust_n[NAME]); allowed: letters, digits, spaces and other signs",
+        )
+    return name
+
+
 class ThrusterSpec(_Strict):
     """[[thruster]]: one thruster design; `units` identical copies of it are fitted. Lengths and
     areas here are of one channel or one unit."""
 
-    name: str = Field(min_length=1)
+    name: Annotated[str, Field(min_length=1), AfterValidator(_no_brackets)]
     """Name of the design, unique in the file; names it in logs, tables and variant settings
-    (thruster.NAME.gap)."""
+    (thruster.NAME.gap). It cannot hold '[' or ']' (the log's per-thruster columns are
+    written thrust_n[NAME])."""
     units: number(ge=1, le=64, integer=True) = 1
     """Number of identical units of this design. Each unit has its own converter (drive.max_current
     is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
