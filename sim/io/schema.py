@@ -346,13 +346,24 @@ class TableHull(_Strict):
 Hull = Annotated[SubmergedHull | DisplacementHull | TableHull, Field(discriminator="model")]
 
 
+def _no_brackets(name: str) -> str:
+    if "[" in name or "]" in name:
+        raise PydanticCustomError(
+            "name_brackets",
+            "a thruster name cannot hold '[' or ']' (the log's per-thruster columns are "
+            "written thrust_n[NAME]); allowed: letters, digits, spaces and other signs",
+        )
+    return name
+
+
 class ThrusterSpec(_Strict):
     """[[thruster]]: one thruster design; `units` identical copies of it are fitted. Lengths and
     areas here are of one channel or one unit."""
 
-    name: str = Field(min_length=1)
+    name: Annotated[str, Field(min_length=1), AfterValidator(_no_brackets)]
     """Name of the design, unique in the file; names it in logs, tables and variant settings
-    (thruster.NAME.gap)."""
+    (thruster.NAME.gap). It cannot hold '[' or ']' (the log's per-thruster columns are
+    written thrust_n[NAME])."""
     units: number(ge=1, le=64, integer=True) = 1
     """Number of identical units of this design. Each unit has its own converter (drive.max_current
     is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
@@ -690,8 +701,8 @@ class LegSpec(_Strict):
     """Command: hold this total electrical power into all thruster units together (V·I at the
     electrodes summed over every unit of every design), not per unit. The drive sets one electrode
     voltage for all units to reach it, at most drive.max_voltage. The pack supplies it ÷
-    drive.efficiency plus the hotel loads, so compare it with the 'thruster kW' column of `brinebolt
-    steady`, not with 'pack kW'.
+    drive.efficiency plus the hotel loads, so compare it with the 'thruster power kW' column of
+    `brinebolt steady`, not with 'pack power kW'.
 
     Default: not set (exactly one of voltage, current, power, speed per leg)."""
     speed: quantity("speed", ge=0, le=40, optional=True) = None
