@@ -1,12 +1,15 @@
 """brinebolt: time-domain propulsion simulator for seawater MHD-thruster vessels.
 
-Layout
+Layout (each layer imports only those below it; see DEVELOPERS.md)
 ------
-``sim.physics``  pure physics: pure functions and frozen dataclasses, SI units, no I/O.
-``sim.engine``   the coupled ODE, mission events (simpy) and the run loop.
-``sim.io``       unit-aware file parsing and validation, HDF5 logs.
+``sim.cli``      the ``brinebolt`` command, one module per command.
+``sim.api``      the Python face.
 ``sim.analysis`` comparisons, range estimates, curves, plots and reports.
-``sim.cli``      the ``brinebolt`` command.
+``sim.flight``   flies a loaded scenario with its HDF5 log.
+``sim.io``       unit-aware file parsing and validation, the seam to engine specs, HDF5 logs.
+``sim.engine``   engine specs, the coupled ODE, mission events (simpy), steady points, summary.
+``sim.safety``   safety figures and caution texts.
+``sim.physics``  pure physics: pure functions and frozen dataclasses, SI units, no I/O.
 """
 
 __version__ = "0.1.0"

@@ -17,7 +17,7 @@ from sim.engine.mission import MissionRunner, RunObserver, RunResult, channel_sp
 from sim.engine.plant import Plant, build_plant
 from sim.engine.summary import SUMMARY_UNITS
 from sim.io.files import LoadedScenario
-from sim.io.log import RunLogWriter
+from sim.io.log import LogWriteError, RunLogWriter
 
 __all__ = ["Flight", "fly", "plant_for"]
 
@@ -149,12 +149,20 @@ def fly(
             writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
             log_path = writer.close(result.ending_reason)
     except BaseException as exc:
-        if writer is not None:
+        if writer is not None and not isinstance(exc, LogWriteError):
+            # a write failure already kept (and marked if it could) the last good snapshot
             why = "interrupted" if isinstance(exc, KeyboardInterrupt) else "failed"
-            text = f"{why}: {type(exc).__name__}: {exc}"
+            given = getattr(exc, "ending_reason", None)  # e.g. "terminated (SIGTERM)"
+            text = (
+                given if isinstance(given, str) and given else f"{why}: {type(exc).__name__}: {exc}"
+            )
             try:
                 exc.partial_log = writer.abort(text if len(text) <= 2000 else text[:1997] + "...")
-            except Exception:  # the original error matters more than a failed last snapshot
+            except LogWriteError as exc2:  # the original error matters more
+                exc.partial_log = exc2.kept
+                exc.log_marked = exc2.marked
+            except Exception:
                 exc.partial_log = writer.incomplete_path
+                exc.log_marked = False
         raise
     return Flight(result=result, log_path=log_path)

@@ -8,6 +8,7 @@ console objects (this module imports nothing of brinebolt but :mod:`sim.physics`
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 
 __all__ = [
@@ -21,6 +22,7 @@ __all__ = [
     "CL2_NIOSH_REL_PPM",
     "DEFAULT_ENCLOSED_M3",
     "H2_LFL_FRACTION",
+    "H2_MOLAR_MASS_G",
     "H2_MOLAR_VOLUME_L",
     "HIGH_CURRENT_A",
     "STRONG_FIELD_T",
@@ -28,6 +30,8 @@ __all__ = [
     "current_flag",
     "field_flag",
     "gas_caution",
+    "gas_fractions_in_volume",
+    "gas_made_text",
     "gas_per_hour",
     "hydrogen_fraction_in_volume",
     "run_flags",
@@ -89,44 +93,85 @@ def gas_per_hour(h2_mol_s: float, cl2_mol_s: float) -> tuple[float, float]:
     return h2_mol_s * 3600 * H2_MOLAR_VOLUME_L, cl2_mol_s * 3600 * CL2_MOLAR_MASS_G
 
 
-def chlorine_ppm_in_volume(cl2_mol: float, volume_m3: float) -> float:
-    """Volume concentration [ppm] if the chlorine were released into a closed, well-mixed air
-    volume at 25 °C and 1 atm (no absorption, no ventilation: the worst case)."""
-    gas_m3 = cl2_mol * H2_MOLAR_VOLUME_L / 1000.0
-    return 1e6 * gas_m3 / volume_m3 if volume_m3 > 0 else float("inf")
+H2_MOLAR_MASS_G = 2.016
+"""Molar mass of H₂ [g/mol] (IUPAC standard atomic weights)."""
 
 
-def hydrogen_fraction_in_volume(h2_mol: float, volume_m3: float) -> float:
-    """Volume fraction of hydrogen [-] in a closed air volume (worst case, as above)."""
-    return h2_mol * H2_MOLAR_VOLUME_L / 1000.0 / volume_m3 if volume_m3 > 0 else float("inf")
+def gas_fractions_in_volume(h2_mol: float, cl2_mol: float, volume_m3: float) -> tuple[float, float]:
+    """Volume fractions of hydrogen and chlorine [-] in an enclosed, well-mixed air space of
+    ``volume_m3`` [m³] into which all the gas made is released.
+
+    The space keeps its pressure (1 atm, 25 °C) by pushing out its well-mixed contents as the
+    gas comes in, and has no other air change: the worst case for a closed compartment. Then
+    the share of the space taken by the released gas is 1 − exp(−G/V), G the gas volume, split
+    between the gases as they were made, so the fractions grow towards the gas mixture's own
+    and their sum never exceeds 1 (the well-mixed dilution law, C = C∞ (1 − exp(−G/V)); common
+    practice in ventilation design). Without air change a space only fills; any ventilation
+    lowers these figures.
+    """
+    if not volume_m3 > 0:
+        raise ValueError(f"enclosed volume {volume_m3!r} m³: allowed: a positive volume")
+    h2, cl2 = max(float(h2_mol), 0.0), max(float(cl2_mol), 0.0)
+    total = h2 + cl2
+    if total == 0.0:
+        return 0.0, 0.0
+    gas_m3 = total * H2_MOLAR_VOLUME_L / 1000.0
+    filled = -math.expm1(-gas_m3 / volume_m3)
+    return filled * h2 / total, filled * cl2 / total
+
+
+def chlorine_ppm_in_volume(cl2_mol: float, volume_m3: float, h2_mol: float = 0.0) -> float:
+    """Chlorine [ppm by volume] in the enclosed space of :func:`gas_fractions_in_volume`."""
+    return 1e6 * gas_fractions_in_volume(h2_mol, cl2_mol, volume_m3)[1]
+
+
+def hydrogen_fraction_in_volume(h2_mol: float, volume_m3: float, cl2_mol: float = 0.0) -> float:
+    """Hydrogen volume fraction [-] in the enclosed space of :func:`gas_fractions_in_volume`."""
+    return gas_fractions_in_volume(h2_mol, cl2_mol, volume_m3)[0]
+
+
+def gas_made_text(h2_mol: float, cl2_mol: float) -> str:
+    """What the electrodes made, in mol, litres (25 °C, 1 atm) and grams: amounts made, not
+    concentrations reached."""
+    return (
+        f"Gas produced: hydrogen {h2_mol:,.2f} mol = {h2_mol * H2_MOLAR_VOLUME_L:,.1f} L at "
+        f"25 °C = {h2_mol * H2_MOLAR_MASS_G:,.1f} g; chlorine {cl2_mol:,.2f} mol = "
+        f"{cl2_mol * H2_MOLAR_VOLUME_L:,.1f} L = {cl2_mol * CL2_MOLAR_MASS_G:,.1f} g (Faraday's "
+        "law, 100 % current efficiency: the amounts made, not concentrations reached)."
+    )
 
 
 def gas_caution(summary: dict, enclosed_volume_m3: float = DEFAULT_ENCLOSED_M3) -> str:
-    """One line on the gas a run produced and what it would mean in an enclosed space.
+    """One line on the gas a run made and what it could mean in an enclosed space.
 
-    ``summary`` is a run summary (``h2_total_mol``, ``cl2_total_mol`` [mol])."""
+    ``summary`` is a run summary (``h2_total_mol``, ``cl2_total_mol`` [mol]). The amounts
+    made come first; the enclosed-space figures are upper bounds of
+    :func:`gas_fractions_in_volume` (all the gas released into a closed, well-mixed space of
+    ``enclosed_volume_m3`` [m³] without air change; they never add up past 100 %)."""
     h2 = float(summary.get("h2_total_mol", 0.0))
     cl2 = float(summary.get("cl2_total_mol", 0.0))
-    ppm = chlorine_ppm_in_volume(cl2, enclosed_volume_m3)
-    h2_frac = hydrogen_fraction_in_volume(h2, enclosed_volume_m3)
-    text = (
-        f"Gas produced: {h2 * H2_MOLAR_VOLUME_L:.1f} L hydrogen, "
-        f"{cl2 * CL2_MOLAR_MASS_G:.1f} g chlorine (Faraday's law, 100 % current efficiency). "
-    )
+    x_h2, x_cl2 = gas_fractions_in_volume(h2, cl2, enclosed_volume_m3)
+    ppm = 1e6 * x_cl2
+    text = gas_made_text(h2, cl2)
     flags = []
     if ppm > CL2_NIOSH_REL_PPM:
         flags.append(
-            f"in an enclosed {enclosed_volume_m3:g} m³ space the chlorine alone would "
-            f"reach {ppm:,.0f} ppm (NIOSH REL {CL2_NIOSH_REL_PPM} ppm, IDLH "
-            f"{CL2_IDLH_PPM:g} ppm)"
+            f"released into a closed, well-mixed {enclosed_volume_m3:g} m³ space without air "
+            f"change it could bring the chlorine to {ppm:,.0f} ppm (NIOSH REL "
+            f"{CL2_NIOSH_REL_PPM} ppm, IDLH {CL2_IDLH_PPM:g} ppm)"
         )
-    if h2_frac > H2_LFL_FRACTION:
+    if x_h2 > H2_LFL_FRACTION:
         flags.append(
-            f"the hydrogen would reach {100 * h2_frac:.0f} % by volume, above its "
-            "4 % lower flammability limit"
+            f"the hydrogen to {100 * x_h2:.1f} % by volume, above its 4 % lower flammability limit"
         )
     if flags:
-        text += "CAUTION: " + "; ".join(flags) + ". Never collect or enclose electrolysis gas."
+        text += (
+            " CAUTION: "
+            + "; ".join(flags)
+            + " (upper bounds: the gas pushes out the mixed air, so the fractions stay below "
+            "the gas mixture's own and sum to at most 100 %; ventilation lowers them). Never "
+            "collect or enclose electrolysis gas."
+        )
     return text
 
 

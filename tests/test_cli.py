@@ -8,6 +8,7 @@ so each takes well under a second.
 
 from __future__ import annotations
 
+import json
 import math
 import os
 import subprocess
@@ -133,14 +134,14 @@ def test_invalid_utf8(capsys, tmp_path):
 def test_unreadable_file(capsys, tmp_path, monkeypatch):
     p = tmp_path / "locked.toml"
     p.write_text("[vessel]\n", encoding="utf-8")
-    real = Path.read_bytes
+    real = os.open
 
-    def refuse(self):  # a permission problem, whoever runs the tests (root reads anything)
-        if self.name == "locked.toml":
-            raise PermissionError(13, "Permission denied", str(self))
-        return real(self)
+    def refuse(path, *args, **kw):  # a permission problem, whoever runs (root reads anything)
+        if Path(path).name == "locked.toml":
+            raise PermissionError(13, "Permission denied", str(path))
+        return real(path, *args, **kw)
 
-    monkeypatch.setattr(Path, "read_bytes", refuse)
+    monkeypatch.setattr(os, "open", refuse)
     code, text = run(capsys, "run", str(p))
     assert code == 2
     assert "locked.toml: cannot read the file: permission denied" in text
@@ -380,7 +381,8 @@ def test_run_flags_gas_current_and_field(capsys, tmp_path):
     assert code == 0, text
     flat = " ".join(text.split())  # the summary wraps at the terminal width
     assert "Gas produced:" in flat
-    assert "CAUTION: in an enclosed 1 m³ space the chlorine alone would reach" in flat
+    assert "CAUTION: released into a closed, well-mixed 1 m³ space" in flat
+    assert "the amounts made, not concentrations reached" in flat
     assert "NIOSH REL 0.5 ppm" in flat
     assert "CAUTION high DC current: up to" in flat and f"above {HIGH_CURRENT_A:g} A" in flat
     assert "CAUTION strong magnetic field: 0.75 T" in flat and "implants" in flat
@@ -394,7 +396,7 @@ def test_huge_enclosed_volume_drops_the_gas_flag(capsys, tmp_path):
     )
     assert code == 0
     flat = " ".join(text.split())
-    assert "Gas produced:" in flat and "in an enclosed" not in flat
+    assert "Gas produced:" in flat and "well-mixed" not in flat
 
 
 def test_small_low_field_craft_gets_no_current_or_field_flag(capsys, tmp_path):
@@ -444,21 +446,40 @@ def test_run_units_metric_and_nautical(capsys, tmp_path):
         capsys, "run", s, "--out", str(tmp_path / "m.h5"), "--quiet", "--units", "metric"
     )
     assert code == 0, metric
-    assert "distance nmi" in nautical and "mean kn" in nautical
-    assert "distance km" in metric and "mean m/s" in metric
-    assert "distance nmi" not in metric and "mean kn" not in metric
+    assert "distance nmi" in nautical and "mean speed kn" in nautical
+    assert "distance km" in metric and "mean speed m/s" in metric
+    assert "distance nmi" not in metric and "mean speed kn" not in metric
     # 1 nmi = 1852 m and 1 kn = 1852 m per hour (international definitions, 1929)
     nmi = float(_cells(nautical, "dash")[3])
     km = float(_cells(metric, "dash")[3])
     assert km == pytest.approx(nmi * 1.852, abs=2e-3)
-    kn = float(_cells(nautical, "dash")[5])
-    m_s = float(_cells(metric, "dash")[5])
-    assert m_s == pytest.approx(kn * 1852 / 3600, abs=5e-3)
+    # the mean speed, from the full-precision JSON output
+    speeds = {}
+    for units in ("nautical", "metric"):
+        code = main(
+            [
+                "run",
+                s,
+                "--out",
+                str(tmp_path / f"j{units}.h5"),
+                "--quiet",
+                "--units",
+                units,
+                "--format",
+                "json",
+            ]
+        )
+        assert code == 0
+        doc = json.loads(capsys.readouterr().out)
+        legs = next(t for t in doc["tables"] if t["name"] == "legs")
+        key = next(c["key"] for c in legs["columns"] if c["name"] == "mean speed")
+        speeds[units] = legs["rows"][0][key]
+    assert speeds["metric"] == pytest.approx(speeds["nautical"] * 1852 / 3600, rel=1e-12)
     # the summary gives the chosen system first and the other in brackets
     dist_n = _cells(nautical, "distance over ground")[1]
     dist_m = _cells(metric, "distance over ground")[1]
-    assert dist_n.endswith("km)") and " nmi  (" in dist_n
-    assert dist_m.endswith("nmi)") and " km  (" in dist_m
+    assert dist_n.endswith("km)") and " nmi (" in dist_n
+    assert dist_m.endswith("nmi)") and " km (" in dist_m
 
 
 def test_steady_units_metric(capsys, monkeypatch):
@@ -563,9 +584,11 @@ def test_python_dash_m_reports_option_errors_as_user_errors(tmp_path):
 
 def test_readme_documents_the_exit_codes_and_output_naming():
     readme = (ROOT / "README.md").read_text(encoding="utf-8")
-    for code in ("| 0 |", "| 1 |", "| 2 |", "| 3 |", "| 4 |", "| 130 |"):
+    for code in ("| 0 |", "| 1 |", "| 2 |", "| 3 |", "| 4 |", "| 5 |", "| 130 |", "| 143 |"):
         assert code in readme
     assert "-2.h5" in readme and "--force" in readme and "--enclosed-volume" in readme
+    assert "--format text|csv|json" in readme and "--output FILE" in readme
+    assert "--soc-min 0.1" in readme
 
 
 @pytest.fixture(autouse=True)

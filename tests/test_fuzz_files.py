@@ -415,3 +415,24 @@ def test_extreme_magnitudes_in_good_scenarios_raise_only_input_error(fuzz_dir, d
     path = fuzz_dir / "perturbed-scenario.toml"
     path.write_text(dumps(doc), encoding="utf-8")
     _loads_or_input_error(load_scenario, path)
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    depth=st.integers(min_value=1, max_value=3000),
+    big=st.integers(min_value=2**63, max_value=10**500) | st.integers(max_value=-(2**63) - 1),
+    bom=st.booleans(),
+)
+def test_hostile_nesting_huge_integers_and_bom_raise_only_input_error(fuzz_dir, depth, big, bom):
+    # issue 10: deep nesting (RecursionError), integers beyond 64 bits (OverflowError) and a
+    # byte-order mark once ended in internal errors
+    text = GOOD_VESSEL.read_text(encoding="utf-8")
+    path = fuzz_dir / "hostile.toml"
+    nested = "[" * depth + "]" * depth
+    path.write_bytes(
+        (b"\xef\xbb\xbf" if bom else b"")
+        + (text + f"\n[extra]\nnested = {nested}\nbig = {big}\n").encode("utf-8")
+    )
+    _loads_or_input_error(check_file, path)
+    path.write_bytes((b"\xef\xbb\xbf" if bom else b"") + text.encode("utf-8"))
+    check_file(path)  # the byte-order mark alone is accepted

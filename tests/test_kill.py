@@ -38,6 +38,9 @@ sample = "1 s"
 [limits]
 time = "300 h"
 
+[solver]
+allow_large = true   # a million samples on purpose: the run must still be going when killed
+
 [[leg]]
 name = "a"
 voltage = "12 V"

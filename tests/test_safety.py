@@ -3,6 +3,8 @@ exposure limits they quote, and the current and field flags at their thresholds.
 
 from __future__ import annotations
 
+import math
+
 import pytest
 import scipy.constants as sc
 
@@ -30,16 +32,41 @@ def test_gas_figures():
 
 
 def test_gas_caution_in_an_enclosed_space():
-    # ideal-gas law: 1 mol at 25 °C and 1 atm takes 24.4654 L, so 1 mol of Cl2 in 24.4654 m^3
-    # of air is 1000 ppm by volume, and 100 mol of H2 in that volume is 10 % by volume
+    # ideal-gas law: 1 mol at 25 °C and 1 atm takes 24.4654 L. Released into a closed, well-mixed
+    # space that keeps its pressure by pushing out its mixed contents, G of gas fill the share
+    # 1 - exp(-G/V) of V (well-mixed dilution law, common practice in ventilation design):
+    # 1 mol of Cl2 into 24.4654 m^3 gives 1e6 (1 - exp(-1e-3)) = 999.5 ppm
     volume_m3 = sc.R * 298.15 / sc.atm * 1000
+    ppm = safety.chlorine_ppm_in_volume(1.0, volume_m3)
+    assert ppm == pytest.approx(1e6 * (1 - math.exp(-1e-3)), rel=1e-6)
     text = safety.gas_caution({"h2_total_mol": 0.0, "cl2_total_mol": 1.0}, volume_m3)
-    assert "the chlorine alone would reach 1,000 ppm" in text and "NIOSH REL 0.5 ppm" in text
-    assert "hydrogen would reach" not in text
+    assert "chlorine to 1,000 ppm" in text and "NIOSH REL 0.5 ppm" in text
+    assert "hydrogen to" not in text
+    # the amounts made are given in mol, litres and grams, and called amounts made
+    assert "chlorine 1.00 mol = 24.5 L = 70.9 g" in text and "amounts made" in text
+    assert "not concentrations reached" in text
     text = safety.gas_caution({"h2_total_mol": 100.0, "cl2_total_mol": 0.0}, volume_m3)
-    assert "the hydrogen would reach 10 % by volume, above its 4 % lower flammability" in text
+    assert f"hydrogen to {100 * (1 - math.exp(-0.1)):.1f} % by volume" in text
+    assert "above its 4 % lower flammability" in text
     quiet = safety.gas_caution({"h2_total_mol": 1e-6, "cl2_total_mol": 1e-9}, 10.0)
     assert quiet.startswith("Gas produced:") and "CAUTION" not in quiet  # below both limits
+
+
+def test_enclosed_space_never_holds_more_than_all_of_it():
+    # issue 10: 650,661 ppm chlorine and 65 % hydrogen "in the same 10 m^3". Whatever is made,
+    # the fractions stay below the gas mixture's own (H2 : Cl2 = 1 : 1 by Faraday's law for
+    # 2 electrons each) and sum to at most 1
+    for mol in (1.0, 1e3, 2.66e4, 1e7):
+        h2, cl2 = safety.gas_fractions_in_volume(mol, mol, 10.0)
+        assert 0 < h2 <= 0.5 and 0 < cl2 <= 0.5 and h2 + cl2 <= 1.0
+    h2, cl2 = safety.gas_fractions_in_volume(1e7, 1e7, 10.0)
+    assert h2 + cl2 == pytest.approx(1.0)
+    text = safety.gas_caution({"h2_total_mol": 2.66e4, "cl2_total_mol": 2.66e4}, 10.0)
+    assert "chlorine to 500,000 ppm" in text and "hydrogen to 50.0 %" in text
+    assert "upper bounds" in text and "sum to at most 100 %" in text
+    assert safety.gas_fractions_in_volume(0.0, 0.0, 10.0) == (0.0, 0.0)
+    with pytest.raises(ValueError, match="enclosed volume"):
+        safety.gas_fractions_in_volume(1.0, 1.0, 0.0)
 
 
 def test_current_and_field_flags_at_their_thresholds():

@@ -115,6 +115,9 @@ class LogRange:
     reserve_soc : the reserve asked for (None when not asked)
     reserve_at_last_leg, reserve_at_best_speed : as above, down to the reserve SOC
     notes : caveats (how the vessel was rebuilt, why a figure is missing)
+    verdict : one sentence when no range is left (the pack at or below its cut-off, or unable
+        to deliver any demand from the last state), else ""; the range rows then are None or
+        all zero, never a speed with a range beside "no range"
     """
 
     log_path: Path
@@ -138,6 +141,7 @@ class LogRange:
     reserve_at_last_leg: Remaining | None = None
     reserve_at_best_speed: Remaining | None = None
     notes: tuple[str, ...] = field(default_factory=tuple)
+    verdict: str = ""
 
     @property
     def total_range_m(self) -> float:
@@ -395,15 +399,30 @@ def range_from_log(
             b.range_m,
         )
 
-    at_last = run_on(basis, soc_min) if basis else None
-    at_best = best_on(soc_min) if best_speed else None
-    if not best_speed:
-        notes.append("best-range speed not searched")
-    r_last = r_best = None
-    if reserve_soc is not None:
-        floor = max(float(reserve_soc), soc_min)
-        r_last = run_on(basis, floor) if basis else None
-        r_best = best_on(floor) if best_speed else None
+    verdict = ""
+    at_last = at_best = r_last = r_best = None
+    if soc <= soc_min:
+        verdict = (
+            f"No range left: the state of charge ({100 * soc:.1f} %) is at or below the "
+            f"cut-off ({100 * soc_min:.1f} %)."
+        )
+    else:
+        at_last = run_on(basis, soc_min) if basis else None
+        at_best = best_on(soc_min) if best_speed else None
+        if not best_speed:
+            notes.append("best-range speed not searched")
+        if reserve_soc is not None:
+            floor = max(float(reserve_soc), soc_min)
+            r_last = run_on(basis, floor) if basis else None
+            r_best = best_on(floor) if best_speed else None
+        got = [r for r in (at_last, at_best) if r is not None]
+        if got and all(not r.range_m > 0 for r in got):
+            why = "; ".join(sorted({r.endurance.cutoff for r in got}))
+            verdict = f"No range left from the last state: the pack is at its cut-off ({why})."
+            at_best = None  # a best speed with no range is no best speed
+            notes = [n for n in notes if "best-range speed" not in n]
+        elif best_speed and at_best is None and basis is None:
+            verdict = "No range left: no speed can be held from the last state."
     return LogRange(
         log_path=Path(log.path),
         complete=log.complete,
@@ -426,4 +445,5 @@ def range_from_log(
         reserve_at_last_leg=r_last,
         reserve_at_best_speed=r_best,
         notes=tuple(notes),
+        verdict=verdict,
     )

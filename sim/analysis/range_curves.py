@@ -20,7 +20,14 @@ from sim.engine.plant import Plant
 from sim.engine.steady import SteadyError, SteadyPoint, steady_at_speed, steady_speed_for
 from sim.physics.errors import ModelRangeError
 
-__all__ = ["RangeCurve", "RangePoint", "default_speed_grid", "range_at_speed", "range_curve"]
+__all__ = [
+    "RangeCurve",
+    "RangePoint",
+    "default_speed_grid",
+    "range_at_speed",
+    "range_curve",
+    "range_speed_grid",
+]
 
 
 @dataclass(frozen=True)
@@ -201,6 +208,34 @@ def default_speed_grid(plant: Plant, n: int = 24, *, soc: float = 1.0) -> np.nda
     return np.geomspace(top / 40.0, top * 0.999, int(n))
 
 
+def range_speed_grid(plant: Plant, n: int = 24, *, soc: float = 1.0) -> np.ndarray:
+    """Speeds through water [m/s] worth a range curve: from about a quarter of the best-range
+    speed up to the top speed, geometric.
+
+    The best-range speed is first estimated from the craft's own steady curve (least pack
+    energy per distance over ground, P/(V + V_current), on a coarse grid of
+    :func:`default_speed_grid`); the grid then starts at 25 % of it (never below 1/40 of the
+    top speed), so it does not spend its points on crawling speeds of days of endurance.
+    """
+    coarse = default_speed_grid(plant, 12, soc=soc)
+    top = float(coarse[-1]) / 0.999
+    ground = coarse + plant.water_current_m_s
+    epd = np.full(coarse.shape, np.inf)
+    for i, v in enumerate(coarse):
+        if not ground[i] > 0:
+            continue
+        try:
+            sp = steady_at_speed(plant, float(v), soc=soc)
+        except (SteadyError, ModelRangeError):
+            continue
+        if sp.feasible and sp.pack_power_w > 0:
+            epd[i] = sp.pack_power_w / ground[i]
+    low = top / 40.0
+    if np.isfinite(epd).any():
+        low = max(low, 0.25 * float(coarse[int(np.argmin(epd))]))
+    return np.geomspace(low, top * 0.999, int(n))
+
+
 def range_curve(
     plant: Plant,
     speeds_m_s=None,
@@ -220,7 +255,8 @@ def range_curve(
     ----------
     plant : Plant
     speeds_m_s : array, optional
-        Speeds through water [m/s]; default :func:`default_speed_grid` with ``points`` speeds.
+        Speeds through water [m/s]; default :func:`range_speed_grid` with ``points`` speeds
+        (from about a quarter of the best-range speed to the top speed).
     soc, soc_min, v_rc, temp_c, hotel_w, temp_max_c
         As in :func:`range_at_speed`.
     refine : bool
@@ -237,7 +273,7 @@ def range_curve(
     the grid's lowest speed as the slowest speed worth holding (steerage).
     """
     if speeds_m_s is None:
-        speeds_m_s = default_speed_grid(plant, points, soc=soc)
+        speeds_m_s = range_speed_grid(plant, points, soc=soc)
     speeds = np.asarray(speeds_m_s, dtype=float)
     kw = {
         "soc": soc,

@@ -40,6 +40,7 @@ from sim.analysis.range_curves import (
     default_speed_grid,
     range_at_speed,
     range_curve,
+    range_speed_grid,
 )
 
 __all__ = [
@@ -64,5 +65,6 @@ __all__ = [
     "range_at_speed",
     "range_curve",
     "range_from_log",
+    "range_speed_grid",
     "stored_energy_j",
 ]

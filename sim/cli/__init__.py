@@ -13,8 +13,12 @@ Exit codes
 2  bad input: a file, key, value or option is wrong (every problem is listed)
 3  the mission ended early because a limit or trigger stopped it
 4  numerical failure (the solver or a model found no solution); the partial log is kept
+5  output could not be written (full disk, ``--output``); the last good log snapshot is kept
 1  internal error (a bug in brinebolt; ``--debug`` shows the traceback)
 130 interrupted (Ctrl-C); the partial log is kept
+143 terminated by SIGTERM; the partial log is kept, marked "terminated (SIGTERM)"
+
+A closed output pipe ends a command quietly with exit code 0.
 
 No traceback is shown for a user error; ``brinebolt --debug COMMAND ...`` shows it for any error.
 """

@@ -7,7 +7,10 @@ so that ``brinebolt --help`` starts without them.
 
 from __future__ import annotations
 
+import errno
+import os
 import sys
+import unicodedata
 from collections.abc import Iterable
 
 from sim.physics.errors import ModelRangeError
@@ -15,6 +18,12 @@ from sim.safety import CAUTIONS
 
 EXIT_OK, EXIT_INPUT, EXIT_LIMIT, EXIT_NUMERIC, EXIT_INTERRUPT = 0, 2, 3, 4, 130
 EXIT_BUG = 1
+EXIT_WRITE = 5
+"""Output could not be written (a full disk while writing the log, an ``--output`` file that
+cannot be written); the partial log is kept."""
+EXIT_TERMINATED = 143
+"""Ended by SIGTERM (128 + 15, as a shell reports a process killed by it); the partial log is
+kept and marked."""
 
 
 class OptionError(Exception):
@@ -22,25 +31,83 @@ class OptionError(Exception):
     allowed. Exit code 2."""
 
 
+class OutputError(OSError):
+    """An output file asked for on the command line (``--output``) cannot be written. Exit
+    code 5."""
+
+
+class Terminated(KeyboardInterrupt):
+    """SIGTERM arrived: the command ends as after Ctrl-C (final flush, partial log kept and
+    marked), with ``ending_reason`` as the log's ending reason and exit code 143."""
+
+    ending_reason = "terminated (SIGTERM)"
+
+    def __str__(self) -> str:
+        return self.ending_reason
+
+
 # ---------------------------------------------------------------------------- console
 
 
-def console(stderr: bool = False, *, wide_when_piped: bool = False):
-    """A rich console without automatic highlighting.
+def console(stderr: bool = False, *, wide_when_piped: bool = False, file=None):
+    """A rich console without automatic highlighting or emoji codes.
 
-    ``wide_when_piped`` gives piped output a wide page so that wide tables keep their columns."""
+    Its width is the terminal's (``COLUMNS``, or 80 when piped); tables that do not fit are
+    folded into several (:func:`print_table`), so no width loses a number.
+    ``wide_when_piped`` is kept for old callers and does nothing any more. ``file`` writes to
+    that file instead of stdout/stderr."""
     from rich.console import Console
 
-    if wide_when_piped and not stderr:
-        return Console(highlight=False, width=None if sys.stdout.isatty() else 180)
-    return Console(stderr=stderr, highlight=False)
+    del wide_when_piped
+    if file is not None:
+        con = Console(file=file, highlight=False, emoji=False)
+    else:
+        con = Console(stderr=stderr, highlight=False, emoji=False)
+    con.on_broken_pipe = _pipe_closed  # rich would exit 1; a closed pipe is no error
+    return con
+
+
+def quiet_stdout() -> None:
+    """Point stdout at the null device: the reader of a pipe has gone (``| head``), so what is
+    left to print (and Python's flush at exit) goes nowhere instead of failing again."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError, AttributeError):  # no real file (a test's capture)
+        pass
+
+
+def _pipe_closed() -> None:
+    quiet_stdout()
+    raise BrokenPipeError(errno.EPIPE, "the reader of the output pipe has gone")
+
+
+_BIDI = {chr(c) for c in (*range(0x202A, 0x202F), *range(0x2066, 0x206A))}
+
+
+def visible(text: object, *, keep_newlines: bool = True) -> str:
+    """``str(text)`` with control characters (C0, DEL, C1, bidirectional overrides) written as
+    ``\\x1b``-style escapes, so a name can neither drive the terminal nor hide itself.
+    Newlines and tabs stay unless ``keep_newlines`` is False."""
+    out = []
+    for ch in str(text):
+        if keep_newlines and ch in "\n\t":
+            out.append(ch)
+        elif unicodedata.category(ch) == "Cc" or ch in _BIDI:
+            out.append(repr(ch)[1:-1] if ord(ch) < 0x100 else f"\\u{ord(ch):04x}")
+        else:
+            out.append(ch)
+    return "".join(out)
 
 
 def esc(text: object) -> str:
-    """``text`` with rich markup escaped (file names, messages and values the user gave)."""
+    """``text`` made safe to print with rich: control characters made visible
+    (:func:`visible`) and rich markup escaped (names, file names, messages and values the user
+    gave)."""
     from rich.markup import escape
 
-    return escape(str(text))
+    return escape(visible(text))
 
 
 def print_problems(problems: Iterable, con) -> None:
@@ -55,17 +122,68 @@ def print_problems(problems: Iterable, con) -> None:
 
 
 def print_table(con, table, title: str = "", left: tuple[int, ...] = (0,)) -> None:
-    """Print a plain ``(header, rows)`` table, texts escaped; the columns in ``left`` and the
-    last one are left-aligned, the others right-aligned."""
+    """Print a table: a :class:`sim.analysis.tables.DataTable` or a plain ``(header, rows)``.
+
+    Texts are escaped (:func:`esc`). Numbers, names and headers are never wrapped or cut: when
+    the table is wider than the console it is folded into several tables, each repeating the
+    first column; only free text (a note column) may wrap at its words. For a plain table the
+    columns in ``left`` and the last one are left-aligned, the others right-aligned."""
+    from rich.cells import cell_len
     from rich.table import Table
 
-    head, rows = table
-    t = Table(title=esc(title) if title else None, title_justify="left")
-    for i, h in enumerate(head):
-        t.add_column(h, justify="left" if i in left or i == len(head) - 1 else "right")
-    for r in rows:
-        t.add_row(*(esc(c) for c in r))
-    con.print(t)
+    if hasattr(table, "text_kinds"):  # a DataTable
+        title = title or table.title
+        kinds = table.text_kinds
+        head, rows = table.text()
+    else:
+        head, rows = table
+        kinds = [
+            "name" if i in left else "text" if i == len(head) - 1 else "number"
+            for i in range(len(head))
+        ]
+    n = len(head)
+    head = [visible(h, keep_newlines=False) for h in head]
+    rows = [[visible(c, keep_newlines=False) for c in r] for r in rows]
+    need = [max([cell_len(head[i])] + [cell_len(r[i]) for r in rows]) for i in range(n)]
+    wraps = [kinds[i] == "text" and i > 0 for i in range(n)]
+    least = [
+        min(
+            need[i],
+            max(
+                20,
+                max([cell_len(head[i])] + [cell_len(w) for r in rows for w in r[i].split()] or [1]),
+            ),
+        )
+        if wraps[i]
+        else need[i]
+        for i in range(n)
+    ]
+    width = max(int(con.width), 20)
+    groups: list[list[int]] = []
+    cur = [0]
+    used = 1 + least[0] + 3
+    for i in range(1, n):
+        w = least[i] + 3  # one padding each side and a border
+        if used + w > width and len(cur) > 1:
+            groups.append(cur)
+            cur, used = [0], 1 + least[0] + 3
+        cur.append(i)
+        used += w
+    groups.append(cur)
+    for g, cols in enumerate(groups):
+        part = title if g == 0 else f"{title} (continued)" if title else ""
+        t = Table(title=esc(part) if part else None, title_justify="left")
+        for i in cols:
+            t.add_column(
+                esc(head[i]),
+                justify="left" if kinds[i] in ("name", "text") else "right",
+                no_wrap=not wraps[i],
+                min_width=None if wraps[i] else need[i],
+                overflow="fold",
+            )
+        for r in rows:
+            t.add_row(*(esc(r[i]) for i in cols))
+        con.print(t)
 
 
 def print_cautions(con, lines: Iterable[str] = CAUTIONS) -> None:
@@ -84,10 +202,25 @@ def report_error(exc: BaseException, err) -> int:
 
     from sim.engine.mission import SolverFailure
     from sim.io.files import InputError
-    from sim.io.log import LogDataError, LogExistsError
+    from sim.io.log import LogBusyError, LogDataError, LogExistsError, LogWriteError
 
     def say(text: str) -> None:
         err.print(text, soft_wrap=True)
+
+    if isinstance(exc, LogBusyError):
+        say(f"[bold red]error[/] the log is busy: {esc(exc)}")
+        say("Nothing was run.")
+        return EXIT_INPUT
+    if isinstance(exc, LogWriteError):  # full disk...: its message names the kept snapshot
+        say(f"[bold red]output could not be written[/] {esc(exc)}")
+        return EXIT_WRITE
+    if isinstance(exc, OutputError):
+        say(f"[bold red]output could not be written[/] {esc(exc)}")
+        return EXIT_WRITE
+    if isinstance(exc, Terminated):
+        say("[bold red]terminated[/] (SIGTERM)")
+        say(_partial_log_text(exc))
+        return EXIT_TERMINATED
 
     if isinstance(exc, InputError):
         print_problems(exc.problems, err)
@@ -127,6 +260,11 @@ def _partial_log_text(exc: BaseException) -> str:
     path = getattr(exc, "partial_log", None)
     if path is None:
         return "No log was being written."
+    if getattr(exc, "log_marked", True) is False:
+        return (
+            f"The partial log is kept: [bold]{esc(path)}[/] (valid, but it could not be marked "
+            "with why the run ended)."
+        )
     return (
         f"The partial log is kept, marked incomplete: [bold]{esc(path)}[/] "
         "(open it with brinebolt's reader or plain h5py)."

@@ -188,14 +188,16 @@ def check_log_out(out: str | None, force: bool) -> None:
                 )
 
 
-def read_log(path: str):
-    """The run log at ``path`` (argument ``LOG``) as a :class:`sim.io.log.RunLog`."""
+def read_log(path: str, min_samples: int = 1):
+    """The run log at ``path`` (argument ``LOG``) as a :class:`sim.io.log.RunLog`, holding at
+    least ``min_samples`` samples (:meth:`~sim.io.log.RunLog.require_samples`); a missing,
+    damaged or empty log is an :class:`OptionError` (exit code 2) naming the file."""
     from sim.io.log import LogFormatError, read_log
 
     try:
-        return read_log(path)
-    except (FileNotFoundError, LogFormatError) as exc:
-        raise OptionError(f"LOG {path!r}: {exc}") from None
+        return read_log(path).require_samples(min_samples)
+    except (OSError, LogFormatError, KeyError, ValueError) as exc:
+        raise OptionError(f"LOG {path!r}: cannot use it: {exc}") from None
 
 
 def load_vessel(path: str, con):

@@ -4,7 +4,8 @@
 from __future__ import annotations
 
 from sim.cli import options
-from sim.cli.core import EXIT_OK, OptionError, console, esc, print_table
+from sim.cli.core import EXIT_OK, OptionError, esc
+from sim.cli.output import TableOutput, add_format
 
 
 def register(sub) -> None:
@@ -25,26 +26,29 @@ def register(sub) -> None:
     )
     r.add_argument("--no-best", action="store_true", help="skip the best-range speed search")
     options.add_units(r)
+    add_format(r)
     r.set_defaults(func=cmd_reach)
 
 
 def cmd_reach(args) -> int:
     from sim.analysis.reach import LogMismatchError, range_from_log
-    from sim.analysis.tables import leg_table, log_range_table
+    from sim.analysis.tables import leg_data, log_range_data
 
-    con = console(wide_when_piped=True)
-    log = options.read_log(args.log)
+    out = TableOutput(args, "reach")
+    con = out.messages
+    reserve = options.soc(args.reserve, "--reserve")
+    log = options.read_log(args.log, min_samples=2)
     try:
-        lr = range_from_log(
-            log, reserve_soc=options.soc(args.reserve, "--reserve"), best_speed=not args.no_best
-        )
+        lr = range_from_log(log, reserve_soc=reserve, best_speed=not args.no_best)
     except LogMismatchError as exc:
         raise OptionError(str(exc)) from None
-    state, left = log_range_table(lr, args.units)
-    title = lr.scenario_name or str(lr.log_path)
-    print_table(con, state, f"{title}: where the run stands")
-    print_table(con, leg_table(lr.legs, args.units), "energy by leg")
-    print_table(con, left, "range left (the pack integrated to cut-off at each demand)")
+    state, left = log_range_data(lr, args.units, title=lr.scenario_name or str(lr.log_path))
+    out.table(state)
+    out.table(leg_data(lr.legs, args.units, title="energy by leg"))
+    out.table(left)
+    out.close()
+    if lr.verdict:
+        con.print(f"[bold]{esc(lr.verdict)}[/]")
     for n in lr.notes:
         con.print(f"[yellow]note[/] {esc(n)}")
     return EXIT_OK

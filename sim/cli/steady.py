@@ -5,8 +5,7 @@ from __future__ import annotations
 from sim.analysis.units import output_units
 from sim.cli import options
 from sim.cli.core import EXIT_OK, OptionError, console, esc, print_cautions
-from sim.physics.constants import KNOT_M_S
-from sim.safety import gas_per_hour
+from sim.cli.output import TableOutput, add_format
 
 DEFAULT_SPEEDS = "0.5 kn,1 kn,1.5 kn,2 kn,2.5 kn,3 kn"
 
@@ -33,6 +32,7 @@ def register(sub) -> None:
         help='deprecated, use --water: water temperature, e.g. "12 degC" (default 15 degC)',
     )
     options.add_units(s)
+    add_format(s)
     s.set_defaults(func=cmd_steady)
 
 
@@ -68,70 +68,40 @@ def _water_spec(args, err):
 
 
 def cmd_steady(args) -> int:
-    from rich.table import Table
-
+    from sim.analysis.tables import steady_data
     from sim.engine.plant import build_plant
     from sim.engine.steady import SteadyError, steady_at_speed
 
-    con = console()
+    out = TableOutput(args, "steady")
+    con = out.messages
     u = output_units(args.units)
-    metric = u.name == "metric"
-    speeds = [options.speed(s, "--speeds") for s in args.speeds.split(",")]
+    speeds = [options.speed(s, "--speeds") for s in args.speeds.split(",") if s.strip()]
+    if not speeds or any(not v > 0 for v in speeds):
+        raise OptionError(
+            f'option --speeds = {args.speeds!r}: allowed: positive speeds, e.g. "1 kn,2 kn"'
+        )
     water = _water_spec(args, console(stderr=True))
     vessel = options.load_vessel(args.vessel, con)
     plant = build_plant(vessel.vessel_spec, water)
     w = plant.water
-    t = Table(
-        title=f"{esc(vessel.spec.vessel.name)}: steady operating points in water of "
-        f"SP {w.sp:g}, {w.t_c:g} °C (σ = {w.sigma_s_m:.3f} S/m)",
-        title_justify="left",
-    )
-    cols = [
-        "speed m/s" if metric else "speed kn",
-        "speed kn" if metric else "speed m/s",
-        "thrust N",
-        "volts V",
-        "current A",
-        "thruster kW",
-        "pack kW",
-        "η elec",
-        "η prop",
-        "η overall",
-        "duct ΔT K",
-        "H₂ L/h",
-        "Cl₂ g/h",
-        "note",
-    ]
-    for c in cols:
-        t.add_column(c, justify="right")
-    notes: list[str] = []
-    for v in speeds:
-        kn, ms = f"{v / KNOT_M_S:.2f}", f"{v:.3f}"
-        first, second = (ms, kn) if metric else (kn, ms)
+    points, notes = [], []
+    for v, given in zip(
+        speeds, [s.strip() for s in args.speeds.split(",") if s.strip()], strict=True
+    ):
         try:
-            p = steady_at_speed(plant, v)
+            points.append((v, steady_at_speed(plant, v)))
         except SteadyError as exc:
-            t.add_row(first, second, *(["—"] * 11), "out of reach")
-            notes.append(f"{first} {u.speed_label}: {exc}")
-            continue
-        h2_l_h, cl2_g_h = gas_per_hour(p.h2_mol_s, p.cl2_mol_s)
-        t.add_row(
-            first,
-            second,
-            f"{p.thrust_n:.1f}",
-            f"{p.thruster_voltage_v:.2f}",
-            f"{p.thruster_current_a:.1f}",
-            f"{p.thruster_power_w / 1000:.3f}",
-            f"{p.pack_power_w / 1000:.3f}",
-            f"{p.electrical_efficiency:.4f}",
-            f"{p.propulsive_efficiency:.3f}",
-            f"{p.overall_efficiency:.4f}",
-            f"{p.duct_rise_k:.3f}",
-            f"{h2_l_h:.1f}",
-            f"{cl2_g_h:.1f}",
-            "" if p.feasible else "pack short",
+            points.append((v, None))
+            notes.append(f"--speeds {given!r} ({u.speed(v):.3g} {u.speed_label}): {exc}")
+    out.table(
+        steady_data(
+            points,
+            u,
+            title=f"{vessel.spec.vessel.name}: steady operating points in water of "
+            f"SP {w.sp:g}, {w.t_c:g} °C (σ = {w.sigma_s_m:.3f} S/m)",
         )
-    con.print(t)
+    )
+    out.close()
     for n in notes:
         con.print(f"[yellow]note[/] {esc(n)}")
     print_cautions(con)

@@ -8,7 +8,8 @@ from pathlib import Path
 
 from sim.analysis.units import output_units
 from sim.cli import options
-from sim.cli.core import EXIT_OK, OptionError, console, print_cautions, print_table
+from sim.cli.core import EXIT_OK, OptionError, print_cautions
+from sim.cli.output import TableOutput, add_format
 
 
 def register(sub) -> None:
@@ -36,6 +37,7 @@ def register(sub) -> None:
     options.add_water(t)
     options.add_units(t)
     options.add_plots(t, "thruster")
+    add_format(t)
     t.set_defaults(func=cmd_thruster_curves)
 
 
@@ -44,10 +46,11 @@ def cmd_thruster_curves(args) -> int:
 
     from sim.analysis import curves as cv
     from sim.analysis.reach import default_speed_grid
-    from sim.analysis.tables import fmt_power as _power
+    from sim.analysis.tables import Column, DataTable
     from sim.engine.plant import build_plant
 
-    con = console(wide_when_piped=True)
+    out = TableOutput(args, "thruster-curves")
+    con = out.messages
     u = output_units(args.units)
     vessel = options.load_vessel(args.vessel, con)
     plant = build_plant(vessel.vessel_spec, options.water(args.water or options.DEFAULT_WATER))
@@ -77,77 +80,92 @@ def cmd_thruster_curves(args) -> int:
         fields_t=np.geomspace(min(fields), max(fields), n) if fields else None,
         n=n,
     )
-    rows = []
-    for i in range(0, len(sc.speed_m_s), 3):
-        rows.append(
-            [
-                f"{u.speed(sc.speed_m_s[i]):.3g}",
-                *(
-                    f"{100 * x:.3g}" if math.isfinite(x) else "—"
-                    for x in (
-                        sc.overall_efficiency[i],
-                        sc.electrical_efficiency[i],
-                        sc.propulsive_efficiency[i],
-                    )
-                ),
-                f"{sc.current_a[i]:.4g}",
-                f"{sc.voltage_v[i]:.3g}",
-                _power(sc.thruster_power_w[i]),
-                _power(sc.pack_power_w[i]),
-            ]
+
+    def pct(x) -> float:
+        return 100 * float(x) if math.isfinite(x) else math.nan
+
+    rows = [
+        (
+            u.speed(float(sc.speed_m_s[i])),
+            pct(sc.overall_efficiency[i]),
+            pct(sc.electrical_efficiency[i]),
+            pct(sc.propulsive_efficiency[i]),
+            float(sc.current_a[i]),
+            float(sc.voltage_v[i]),
+            float(sc.thruster_power_w[i]),
+            float(sc.pack_power_w[i]),
         )
-    head = [
-        f"speed {u.speed_label}",
-        "η overall %",
-        "η electrical %",
-        "η propulsive %",
-        "current A",
-        "voltage V",
-        "thrusters",
-        "pack",
+        for i in range(0, len(sc.speed_m_s), 3)
     ]
-    print_table(
-        con,
-        (head, rows),
-        f"{plant.name}: steady performance (water SP {plant.water.sp:g}, {plant.water.t_c:g} °C)",
+    out.table(
+        DataTable(
+            "performance",
+            f"{plant.name}: steady performance (water SP {plant.water.sp:g}, "
+            f"{plant.water.t_c:g} °C)",
+            (
+                Column("speed", u.speed_label),
+                Column("η overall", "%"),
+                Column("η electrical", "%"),
+                Column("η hydraulic", "%"),
+                Column("current", "A"),
+                Column("voltage", "V"),
+                Column("thruster power", "W"),
+                Column("pack power", "W"),
+            ),
+            tuple(rows),
+        )
     )
     z = emap.overall_efficiency
     if np.isfinite(z).any():
         iy, ix = np.unravel_index(np.nanargmax(z), z.shape)
         within = np.where(emap.voltage_v <= emap.drive_max_voltage_v, z, np.nan)
         map_rows = [
-            [
+            (
                 "design",
-                f"{1000 * emap.design_gap_m:.3g}",
-                f"{emap.design_field_t:.3g}",
-                f"{100 * emap.design_efficiency:.4g}",
-                "",
-            ],
-            [
+                1000 * emap.design_gap_m,
+                emap.design_field_t,
+                100 * emap.design_efficiency,
+                None,
+                None,
+            ),
+            (
                 "best on the map",
-                f"{1000 * emap.gaps_m[ix]:.3g}",
-                f"{emap.fields_t[iy]:.3g}",
-                f"{100 * z[iy, ix]:.4g}",
-                f"needs {emap.voltage_v[iy, ix]:.3g} V, {emap.current_a[iy, ix]:.4g} A",
-            ],
+                1000 * float(emap.gaps_m[ix]),
+                float(emap.fields_t[iy]),
+                100 * float(z[iy, ix]),
+                float(emap.voltage_v[iy, ix]),
+                float(emap.current_a[iy, ix]),
+            ),
         ]
         if np.isfinite(within).any():
             jy, jx = np.unravel_index(np.nanargmax(within), z.shape)
             map_rows.append(
-                [
+                (
                     "best within the drive's voltage",
-                    f"{1000 * emap.gaps_m[jx]:.3g}",
-                    f"{emap.fields_t[jy]:.3g}",
-                    f"{100 * within[jy, jx]:.4g}",
-                    f"{emap.voltage_v[jy, jx]:.3g} V, {emap.current_a[jy, jx]:.4g} A",
-                ]
+                    1000 * float(emap.gaps_m[jx]),
+                    float(emap.fields_t[jy]),
+                    100 * float(within[jy, jx]),
+                    float(emap.voltage_v[jy, jx]),
+                    float(emap.current_a[jy, jx]),
+                )
             )
-        print_table(
-            con,
-            (["point", "gap mm", "field T", "η overall %", "note"], map_rows),
-            f"thruster {name!r} at {u.speed(speed):.3g} {u.speed_label}, "
-            f"{emap.thrust_n:.3g} N per unit",
+        out.table(
+            DataTable(
+                "map",
+                f"thruster {name!r} at {u.speed(speed):.3g} {u.speed_label}, "
+                f"{emap.thrust_n:.3g} N per unit",
+                (
+                    Column("point", kind="name"),
+                    Column("gap", "mm"),
+                    Column("field", "T"),
+                    Column("η overall", "%"),
+                    Column("needs voltage", "V"),
+                    Column("needs current", "A"),
+                ),
+                tuple(map_rows),
+            )
         )
+    out.close()
     if not args.no_plots:
         from sim.analysis import plots
 

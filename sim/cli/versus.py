@@ -16,8 +16,8 @@ from sim.cli.core import (
     console,
     esc,
     print_cautions,
-    print_table,
 )
+from sim.cli.output import TableOutput, add_format
 from sim.safety import gas_caution
 
 RANK_CHOICES = (
@@ -78,14 +78,16 @@ def register(sub) -> None:
     v.add_argument("--sample", help='sampling interval, e.g. "10 s" (default: the scenario\'s)')
     options.add_units(v)
     options.add_plots(v, "overlay")
+    add_format(v)
     v.set_defaults(func=cmd_versus)
 
 
 def cmd_versus(args) -> int:
     from sim.analysis import variants as va
-    from sim.analysis.tables import comparison_table
+    from sim.analysis.tables import comparison_data
 
-    con = console(wide_when_piped=True)
+    out = TableOutput(args, "versus")
+    con = out.messages
     path = Path(args.file)
     try:
         data = tomllib.loads(path.read_text(encoding="utf-8"))
@@ -140,12 +142,8 @@ def cmd_versus(args) -> int:
     except va.VariantsInterrupted as exc:
         _print_interrupted(console(stderr=True), exc)
         return EXIT_INTERRUPT
-    print_table(
-        con,
-        comparison_table(comp, args.units),
-        f"{comp.title} — ranked ({comp.rank_basis})",
-        left=(1,),
-    )
+    out.table(comparison_data(comp, args.units, title=f"{comp.title} — ranked ({comp.rank_basis})"))
+    out.close()
     _print_comparability(con, comp)
     flown = [r for r in comp.runs if r.ok]
     if flown:

@@ -119,6 +119,7 @@ def hull_model(spec: HullSpec):
             given_wetted_area_m2=spec.wetted_area_m2,
             given_form_factor=spec.form_factor,
             given_correlation_allowance=spec.roughness_allowance,
+            check_ranges=spec.check_ranges,
         )
     if isinstance(spec, TableHullSpec):
         return hull.TabulatedResistance(

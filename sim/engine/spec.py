@@ -93,6 +93,8 @@ class DisplacementHullSpec:
     """Given form factor 1 + k [-]; None: from the hull's shape."""
     roughness_allowance: float | None = None
     """Given correlation allowance [-]; None: from the hull's length."""
+    check_ranges: bool = True
+    """Refuse proportions outside the regression's hull data (False: extrapolate)."""
 
 
 @dataclass(frozen=True)

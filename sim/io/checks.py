@@ -14,6 +14,7 @@ Problems show the value as the file wrote it (``"1.1 kn"``), not its SI conversi
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import math
 import re
@@ -21,14 +22,17 @@ from typing import Any
 
 from sim.engine.plant import build_plant, hull_model, thruster_unit
 from sim.io.problems import MISSING, Problem
-from sim.io.schema import LegSpec, ScenarioFile, VesselFile
+from sim.io.schema import DisplacementHull, LegSpec, ScenarioFile, VesselFile
 from sim.io.seam import hull_spec, thruster_spec, vessel_spec, water
 from sim.physics import battery, magnets
 from sim.physics.constants import KNOT_M_S
 from sim.physics.errors import ModelRangeError
+from sim.physics.hull.holtrop_mennen import HOLTROP_MENNEN_RANGES
 from sim.physics.thruster import operating_point
 
 __all__ = [
+    "HULL_MODELS",
+    "displacement_hull_problems",
     "raw_scenario_problems",
     "raw_value",
     "raw_vessel_problems",
@@ -121,12 +125,19 @@ def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
     """Errors in a valid-looking vessel file that only the physics models can see (e.g. the
     Holtrop–Mennen validity ranges, a duct the thruster model rejects)."""
     out = []
-    try:
-        hull_model(hull_spec(spec.hull))
-    except ModelRangeError as exc:
-        out.append(_range_problem(file, "hull", type(spec.hull).model_fields, exc, data))
-    except (ValueError, ArithmeticError) as exc:
-        out.append(Problem(file, "hull", _shown(data, "hull.model", MISSING), str(exc)))
+    hs = hull_spec(spec.hull)
+    if isinstance(spec.hull, DisplacementHull):
+        out.extend(displacement_hull_problems(spec.hull, data, file))
+        # the regression ranges are checked above; the model checks what else it needs
+        hs = dataclasses.replace(hs, check_ranges=False)
+    if not any(p.key.endswith("_coefficient") and p.severity == "error" for p in out):
+        try:
+            hull_model(hs)
+        except ModelRangeError as exc:
+            p = _range_problem(file, "hull", type(spec.hull).model_fields, exc, data)
+            out.append(Problem(p.file, p.key, p.value, p.message + _OTHER_HULLS))
+        except (ValueError, ArithmeticError) as exc:
+            out.append(Problem(file, "hull", _shown(data, "hull.model", MISSING), str(exc)))
     for i, t in enumerate(spec.thruster):
         try:
             thruster_unit(thruster_spec(t))
@@ -137,9 +148,95 @@ def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
     return out
 
 
+HULL_MODELS: dict[str, str] = {
+    "submerged-body": "a deeply submerged body of revolution",
+    "displacement": "a surface ship by the Holtrop & Mennen regression",
+    "table": "your own resistance curve, speed by speed, from model tests or another prediction",
+}
+"""The hull models a vessel file can choose (hull.model) and what each is for."""
+
+_OTHER_HULLS = " (hull models: " + "; ".join(f"'{k}': {v}" for k, v in HULL_MODELS.items()) + ")"
+
+_SHARE_TOLERANCE = 0.01
+"""Relative agreement the Holtrop & Mennen model demands of given and derived coefficients."""
+
+
+def displacement_hull_problems(hull: DisplacementHull, data: dict, file: str) -> list[Problem]:
+    """Every disagreement among a displacement hull's coefficients and every proportion outside
+    the Holtrop & Mennen regression data, all at once (the model itself stops at the first).
+
+    Coefficient mismatches are errors. Proportions outside the regression data are errors with
+    ``outside_range = "refuse"`` (the default) and warnings with ``"warn"``; each names the
+    other hull models.
+    """
+    out: list[Problem] = []
+    L, B, T = hull.waterline_length, hull.beam, hull.draft
+    cb = hull.displaced_volume / (L * B * T)
+    if not abs(hull.block_coefficient / cb - 1.0) <= _SHARE_TOLERANCE:
+        out.append(
+            Problem(
+                file,
+                "hull.block_coefficient",
+                _shown(data, "hull.block_coefficient", hull.block_coefficient),
+                f"disagrees with displaced_volume/(waterline_length·beam·draft) = {cb:.4f}; "
+                "allowed: within 1 % of it (or correct the volume or the main dimensions)",
+            )
+        )
+    cp = hull.block_coefficient / hull.midship_coefficient
+    if not abs(hull.prismatic_coefficient / cp - 1.0) <= _SHARE_TOLERANCE:
+        out.append(
+            Problem(
+                file,
+                "hull.prismatic_coefficient",
+                _shown(data, "hull.prismatic_coefficient", hull.prismatic_coefficient),
+                f"disagrees with block_coefficient/midship_coefficient = {cp:.4f}; allowed: "
+                "within 1 % of it",
+            )
+        )
+    warn = hull.outside_range == "warn"
+    figures = {
+        "prismatic coefficient Cp": ("hull.prismatic_coefficient", hull.prismatic_coefficient),
+        "length/beam L/B": ("hull.beam", L / B),
+        "beam/draft B/T": ("hull.draft", B / T),
+    }
+    for name, (lo, hi) in HOLTROP_MENNEN_RANGES.items():
+        key, value = figures[name]
+        if lo <= value <= hi:
+            continue
+        what = (
+            f"{name} = {value:.3g} lies outside the Holtrop & Mennen regression data "
+            f"[{lo:g}, {hi:g}]"
+        )
+        if warn:
+            out.append(
+                Problem(
+                    file,
+                    key,
+                    _shown(data, key, MISSING),
+                    f"{what}: the resistance is extrapolated (outside_range = 'warn'), a rough "
+                    f"estimate at best{_OTHER_HULLS}",
+                    "warning",
+                )
+            )
+        else:
+            out.append(
+                Problem(
+                    file,
+                    key,
+                    _shown(data, key, MISSING),
+                    f"{what}; allowed: proportions within it, or hull.outside_range = 'warn' to "
+                    f"run with the regression extrapolated, or another hull model{_OTHER_HULLS}",
+                )
+            )
+    return out
+
+
 def _range_problem(file: str, table: str, fields, exc, data: dict) -> Problem:
     """A physics model's range error as a problem, at the file key it names when it names one."""
+    name = re.sub(r"_(m|m2|m3|kg|s|n|w|v|a|t)$", "", str(exc.quantity))  # model names carry units
     key = f"{table}.{exc.quantity}" if exc.quantity in fields else table
+    if key == table and name in fields:
+        key = f"{table}.{name}"
     value = raw_value(data, key) if key != table else exc.value
     if value is MISSING:
         value = exc.value

@@ -219,6 +219,8 @@ def _apply_validator(shape: _Shape, fn, where: str) -> None:
         case = " (case ignored)" if c["upper"] else ""
         article = "an" if c["what"][:1] in "aeiou" else "a"
         shape.allowed.append(f"{article} {c['what']}{case}: {names}")
+    elif fn is schema._no_brackets:
+        shape.allowed.append("text without `[` or `]`")
     elif fn is schema._added_mass:
         shape.kind = "mass"
         shape.unit = "kg, or number"
@@ -273,6 +275,8 @@ def _shape(annotation, metadata, where: str) -> _Shape:
         return shape
     if isinstance(annotation, type) and issubclass(annotation, BaseModel):
         return _Shape(unit="table", models=(annotation,))
+    if annotation is bool:
+        return _Shape(unit="true/false", allowed=["`true` or `false`"])
     shape = _Shape(unit="text" if annotation is str else "")
     _apply_metadata(shape, metadata, where, text=annotation is str)
     if not shape.unit:
@@ -500,23 +504,33 @@ STEADY_COLUMNS: tuple[tuple[str, str], ...] = (
     ("speed m/s", "Speed through water [m/s]."),
     ("thrust N", "Total thrust of all units (equal to the resistance at a steady point)."),
     (
-        "volts V",
+        "voltage V",
         "Electrode voltage of each unit, not a sum (the mean over the designs when there are "
         "several).",
     ),
     ("current A", "Total thruster current, the sum over all units (what a `current` leg holds)."),
     (
-        "thruster kW",
+        "thruster power kW",
         "Total electrical power into all thruster units (what a `power` leg holds).",
     ),
     (
-        "pack kW",
+        "pack power kW",
         "Power at the pack terminals: thruster power ÷ drive.efficiency + hotel.power + "
         "hotel.cryocooler.",
     ),
-    ("η elec", "Electrical efficiency: flow work ÷ thruster electrical power."),
-    ("η prop", "Propulsive (Froude) efficiency: thrust × speed ÷ flow work."),
-    ("η overall", "Overall efficiency: thrust × speed ÷ thruster electrical power."),
+    (
+        "η electrical %",
+        "Electrical efficiency η_el: flow work ÷ thruster electrical power (V·I), in percent.",
+    ),
+    (
+        "η hydraulic %",
+        "Hydraulic efficiency η_h: thrust × speed ÷ flow work (duct losses and Froude "
+        "efficiency together), in percent.",
+    ),
+    (
+        "η overall %",
+        "Overall efficiency η_o: thrust × speed ÷ thruster electrical power (V·I), in percent.",
+    ),
     ("duct ΔT K", "Largest duct outlet-minus-inlet water temperature rise of the designs."),
     ("H₂ L/h", "Hydrogen from all units, litres per hour as an ideal gas at 25 °C and 1 atm."),
     ("Cl₂ g/h", "Chlorine from all units, grams per hour."),

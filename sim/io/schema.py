@@ -17,6 +17,7 @@ from pydantic import (
     BeforeValidator,
     ConfigDict,
     Field,
+    Strict,
     model_validator,
 )
 from pydantic_core import PydanticCustomError
@@ -167,7 +168,7 @@ class _Strict(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True)
 
 
-Length = quantity("length", gt=0)
+Length = quantity("length", gt=0, le=1e4)
 Fraction = number(ge=0, le=1)
 
 # --------------------------------------------------------------------------- vessel file
@@ -196,6 +197,12 @@ def _added_mass(value: Any) -> tuple[str, float]:
         raise PydanticCustomError(
             "bb_value", "{v} kg is negative; allowed: {allowed}", {"v": kg, "allowed": allowed}
         )
+    if kg > 2e9:
+        raise PydanticCustomError(
+            "bb_value",
+            "{v:g} kg is out of range; allowed: {allowed}, at most 2e9 kg",
+            {"v": kg, "allowed": allowed},
+        )
     return ("mass", kg)
 
 
@@ -206,10 +213,11 @@ class VesselInfo(_Strict):
     """Name of the vessel, shown in table and figure titles and stored in the log."""
     description: str = ""
     """Free text for people; the simulation does not use it."""
-    mass: quantity("mass", gt=0)
+    mass: quantity("mass", gt=0, le=1e9)
     """Mass of the vessel as it sails (everything on board). With added_mass it sets the inertia in
     surge: (mass + added mass)·dV/dt = thrust − resistance. A submerged-body hull is taken as
-    neutrally buoyant, so this is also its displaced mass."""
+    neutrally buoyant, so this is also its displaced mass. At most 10⁶ t (the largest ships
+    ever built displaced under 7·10⁵ t)."""
     added_mass: Annotated[tuple[str, float], BeforeValidator(_added_mass)] = ("auto", 0.0)
     """Surge added mass: 'auto' (submerged-body hull: Lamb's prolate-spheroid coefficient from
     length and diameter, times mass; other hulls: 5 % of mass), a mass with its unit, or a plain
@@ -288,6 +296,14 @@ class DisplacementHull(_Strict):
     (roughness term included).
 
     Default: the regression formula."""
+    outside_range: Literal["refuse", "warn"] = "refuse"
+    """What to do when the hull's proportions (prismatic coefficient, length/beam, beam/draft) lie
+    outside the hull data behind the Holtrop & Mennen regression: "refuse" the file, or "warn" and
+    run with the regression extrapolated (small craft such as a 7 m work-boat often lie outside;
+    their resistance is then a rough estimate; a measured curve as hull model "table" is better).
+
+    Default: the file is refused (an extrapolated regression can be far off, so running anyway
+    must be chosen in the file)."""
 
 
 class TableHull(_Strict):
@@ -330,13 +346,24 @@ class TableHull(_Strict):
 Hull = Annotated[SubmergedHull | DisplacementHull | TableHull, Field(discriminator="model")]
 
 
+def _no_brackets(name: str) -> str:
+    if "[" in name or "]" in name:
+        raise PydanticCustomError(
+            "name_brackets",
+            "a thruster name cannot hold '[' or ']' (the log's per-thruster columns are "
+            "written thrust_n[NAME]); allowed: letters, digits, spaces and other signs",
+        )
+    return name
+
+
 class ThrusterSpec(_Strict):
     """[[thruster]]: one thruster design; `units` identical copies of it are fitted. Lengths and
     areas here are of one channel or one unit."""
 
-    name: str = Field(min_length=1)
+    name: Annotated[str, Field(min_length=1), AfterValidator(_no_brackets)]
     """Name of the design, unique in the file; names it in logs, tables and variant settings
-    (thruster.NAME.gap)."""
+    (thruster.NAME.gap). It cannot hold '[' or ']' (the log's per-thruster columns are
+    written thrust_n[NAME])."""
     units: number(ge=1, le=64, integer=True) = 1
     """Number of identical units of this design. Each unit has its own converter (drive.max_current
     is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
@@ -559,6 +586,14 @@ class SolverSpec(_Strict):
     """scipy.integrate.solve_ivp method: explicit Runge–Kutta (RK45, DOP853) for most missions,
     LSODA (switches to a stiff method) for long steady legs with a fast speed hold, Radau or BDF for
     stiff plants."""
+    allow_large: Annotated[bool, Strict()] = False
+    """Run the scenario even when it asks for more work than brinebolt's limits (logged samples,
+    integrator steps, legs, triggers, schedule entries; see `sim.io.budget`), which are there to
+    refuse a file that would run out of memory or run for days. The limits can also be raised
+    for every file with environment variables (BRINEBOLT_MAX_SAMPLES, BRINEBOLT_MAX_STEPS,
+    BRINEBOLT_MAX_LEGS, BRINEBOLT_MAX_TRIGGERS, BRINEBOLT_MAX_SCHEDULE).
+
+    Default: a file over a limit is refused before anything runs."""
 
 
 class LimitsSpec(_Strict):
@@ -666,8 +701,8 @@ class LegSpec(_Strict):
     """Command: hold this total electrical power into all thruster units together (V·I at the
     electrodes summed over every unit of every design), not per unit. The drive sets one electrode
     voltage for all units to reach it, at most drive.max_voltage. The pack supplies it ÷
-    drive.efficiency plus the hotel loads, so compare it with the 'thruster kW' column of `brinebolt
-    steady`, not with 'pack kW'.
+    drive.efficiency plus the hotel loads, so compare it with the 'thruster power kW' column of
+    `brinebolt steady`, not with 'pack power kW'.
 
     Default: not set (exactly one of voltage, current, power, speed per leg)."""
     speed: quantity("speed", ge=0, le=40, optional=True) = None

@@ -61,6 +61,7 @@ def hull_spec(h: schema.SubmergedHull | schema.DisplacementHull | schema.TableHu
             wetted_area_m2=h.wetted_area,
             form_factor=h.form_factor,
             roughness_allowance=h.roughness_allowance,
+            check_ranges=h.outside_range == "refuse",
         )
     if isinstance(h, schema.TableHull):
         return spec.TableHullSpec(

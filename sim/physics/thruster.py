@@ -185,7 +185,7 @@ Crane Co. (2009). Flow of Fluids Through Valves, Fittings and Pipe, Technical Pa
 Hemisphere.
 
 Mitchell, D. L., & Gubser, D. U. (1988). Magnetohydrodynamic ship propulsion with
-superconducting magnets. Journal of Superconductivity 1(4), 349–364. doi:10.1007/BF00618590.
+superconducting magnets. Journal of Superconductivity 1(4), 349–364. doi:10.1007/BF00618593.
 
 Electrolysis gas: Bruggeman (1935), Maxwell (1873); end fringing: conformal mapping of the
 channel (coplanar strips); see `sim.physics.gas` and `sim.physics.end_effects`.
