@@ -14,6 +14,7 @@ All use :func:`sim.physics.thruster.operating_point`, vectorised over speed and 
 from __future__ import annotations
 
 import dataclasses
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -26,9 +27,11 @@ from sim.physics.errors import ModelRangeError
 from sim.physics.thruster import operating_point
 
 __all__ = [
+    "BUILDABLE_FIELD_T",
     "EfficiencyMap",
     "SpeedCurves",
     "ThrustFlowFamily",
+    "buildable_field",
     "efficiency_map",
     "speed_curves",
     "thrust_flow_family",
@@ -250,6 +253,36 @@ def speed_curves(plant: Plant, speeds_m_s=None) -> SpeedCurves:
 
 # ------------------------------------------------------------------ efficiency map
 
+BUILDABLE_FIELD_T: dict[str, tuple[float, str]] = {
+    "permanent": (
+        1.2,
+        "permanent magnets: the gap field is limited by the remanence of NdFeB (about "
+        "1.2-1.45 T); about 1.0-1.2 T is what a practical gap gets (common practice)",
+    ),
+    "electromagnet": (
+        2.0,
+        "iron-cored electromagnet: the iron saturates near 2 T (common practice, from memory)",
+    ),
+}
+"""Largest mean gap field [T] a magnet technology can practically give, and why. A
+superconducting magnet's limit is the vessel's own field (what its coil is designed for)."""
+
+
+def buildable_field(magnet_kind: str, design_field_t: float) -> tuple[float, str]:
+    """The largest mean gap field [T] buildable with a magnet technology, and the reason.
+
+    Parameters
+    ----------
+    magnet_kind : 'permanent', 'electromagnet' or 'superconducting'
+    design_field_t : the vessel's field [T] (the limit of a superconducting magnet)
+    """
+    if magnet_kind in BUILDABLE_FIELD_T:
+        return BUILDABLE_FIELD_T[magnet_kind]
+    return (
+        float(design_field_t),
+        f"{magnet_kind} magnet: the field its coil is designed for (the vessel's field)",
+    )
+
 
 @dataclass(frozen=True)
 class EfficiencyMap:
@@ -267,6 +300,9 @@ class EfficiencyMap:
     voltage_v, current_a : electrode voltage [V] and current [A] of one unit, shape (ny, nx)
     design_gap_m, design_field_t, design_efficiency : the design as drawn [m], [T], [-]
     drive_max_voltage_v : the drive's maximum voltage [V] (points above it need another drive)
+    magnet_kind : 'permanent', 'electromagnet' or 'superconducting'
+    field_limit_t, field_limit_note : the largest buildable field of that technology [T] and why
+        (:func:`buildable_field`); points above it cannot be built with this kind of magnet
     """
 
     thruster: str
@@ -281,6 +317,26 @@ class EfficiencyMap:
     design_field_t: float
     design_efficiency: float
     drive_max_voltage_v: float
+    magnet_kind: str = "permanent"
+    field_limit_t: float = math.inf
+    field_limit_note: str = ""
+
+    def best(self, *, buildable: bool = False, within_drive: bool = False):
+        """``(iy, ix)`` of the most efficient point, or None; ``buildable`` keeps to fields at or
+        below :attr:`field_limit_t`, ``within_drive`` to voltages the drive can give."""
+        z = np.array(self.overall_efficiency, dtype=float)
+        if buildable:
+            z[self.fields_t > self.field_limit_t * (1 + 1e-9), :] = np.nan
+        if within_drive:
+            z[~(self.voltage_v <= self.drive_max_voltage_v)] = np.nan
+        if not np.isfinite(z).any():
+            return None
+        iy, ix = np.unravel_index(np.nanargmax(z), z.shape)
+        return int(iy), int(ix)
+
+    def at_edge(self, iy: int, ix: int) -> bool:
+        """Whether grid point ``(iy, ix)`` lies on the map's edge (its optimum may lie beyond)."""
+        return iy in (0, self.fields_t.size - 1) or ix in (0, self.gaps_m.size - 1)
 
 
 def _at_thrust(duct, water, speed: float, thrust_n: float):
@@ -368,6 +424,7 @@ def efficiency_map(
         else np.geomspace(sp.field_t[k] / 4, min(sp.field_t[k] * 4, 30.0), n),
         dtype=float,
     )
+    limit, note = buildable_field(unit.magnet_kind, float(unit.b_ref_tesla))
     eff = np.full((fields.size, gaps.size), np.nan)
     volt = np.full_like(eff, np.nan)
     cur = np.full_like(eff, np.nan)
@@ -391,4 +448,7 @@ def efficiency_map(
         design_field_t=float(sp.field_t[k]),
         design_efficiency=float(op0.overall_efficiency),
         drive_max_voltage_v=plant.drive_max_voltage_v,
+        magnet_kind=unit.magnet_kind,
+        field_limit_t=limit,
+        field_limit_note=note,
     )

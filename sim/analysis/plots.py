@@ -5,15 +5,23 @@ pyplot (so no GUI backend and no global state); :func:`save_figure` writes PNG a
 PDF. Figures are titled, every axis is labelled with its unit, and series differ by line style
 and marker as well as colour so they stay readable when printed in greyscale. Each line carries
 a label, so tests (and notebooks) can find the data behind a plot with ``ax.get_lines()``.
+
+Text that comes from the user (vessel, scenario, thruster, leg and variant names, titles) is
+passed through :func:`plain`, so a ``$`` or a backslash in a name is shown as typed and never
+parsed as mathtext; the figures are built with ``text.usetex`` off whatever the local
+matplotlib settings say.
 """
 
 from __future__ import annotations
 
+import functools
 from collections.abc import Sequence
 from pathlib import Path
 
+import matplotlib as mpl
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.colors import BoundaryNorm
 from matplotlib.figure import Figure
 from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
 
@@ -23,6 +31,7 @@ __all__ = [
     "STYLES",
     "efficiency_map_figure",
     "overlay_figure",
+    "plain",
     "power_breakdown_figure",
     "range_figure",
     "run_figure",
@@ -41,16 +50,30 @@ STYLES: tuple[tuple[str, object, str], ...] = (
     ("#E69F00", (0, (1, 1)), "P"),
     ("#56B4E9", (0, (8, 2)), "X"),
     ("#666666", (0, (3, 1, 1, 1)), "*"),
+    ("#882255", (0, (10, 3)), "h"),
+    ("#117733", (0, (6, 2, 1, 2)), "<"),
+    ("#999933", (0, (2, 3)), ">"),
+    ("#332288", (0, (8, 2, 2, 2, 2, 2)), "p"),
 )
-"""(colour, line style, marker) cycle: Okabe–Ito colours of distinct lightness, and a distinct
-dash pattern and marker for each, so lines are told apart in greyscale."""
+"""(colour, line style, marker) cycle of 12, each distinct from the others by colour, dash
+pattern and marker: the Okabe–Ito colours, then four of Tol's muted colours, so lines are told
+apart in greyscale. Beyond 12 series :func:`style` combines the three cycles so that no two of
+the first 12 × 11 series look alike."""
 
 HATCHES = ("", "//", "..", "xx", "\\\\", "oo", "++", "--")
 
 
 def style(i: int, n_points: int = 0) -> dict:
-    """Line keyword arguments of the i-th series (markers every ~1/10 of the points)."""
-    colour, ls, marker = STYLES[i % len(STYLES)]
+    """Line keyword arguments of the i-th series (markers every ~1/10 of the points).
+
+    The first ``len(STYLES)`` (12) series differ from each other in colour, dash pattern and
+    marker; after that the marker cycle is shifted, so series ``i`` and ``i + 12`` still differ
+    by marker (and dash pattern)."""
+    n = len(STYLES)
+    k, lap = i % n, i // n
+    colour = STYLES[k][0]
+    ls = STYLES[(k + lap) % n][1]
+    marker = STYLES[(k + 2 * lap) % n][2]
     every = max(1, n_points // 10) if n_points else 1
     return {
         "color": colour,
@@ -61,6 +84,69 @@ def style(i: int, n_points: int = 0) -> dict:
         "linewidth": 1.5,
         "markerfacecolor": "white",
     }
+
+
+def plain(text: object) -> str:
+    """``text`` as matplotlib must show it verbatim: every ``$`` escaped, so mathtext never
+    parses user text (``$\\frac{$`` in a name would otherwise crash the drawing). Backslashes
+    only mean something inside ``$...$``, so they need no escape once no ``$`` is left."""
+    return str(text).replace("$", r"\$")
+
+
+def _figure(build):
+    """Build a figure with LaTeX text rendering off (a local ``text.usetex = True`` would hand
+    user text to LaTeX)."""
+
+    @functools.wraps(build)
+    def wrapper(*args, **kwargs):
+        with mpl.rc_context({"text.usetex": False}):
+            return build(*args, **kwargs)
+
+    return wrapper
+
+
+def _legend(ax, **kw):
+    """A legend that keeps out of the data's way: the best place, on a mostly opaque frame."""
+    kw.setdefault("fontsize", 8)
+    kw.setdefault("loc", "best")
+    kw.setdefault("framealpha", 0.85)
+    return ax.legend(**kw)
+
+
+ROBUST_PERCENTILE = 99.0
+"""Percentile of the samples that sets the top of a clipped axis (:func:`_clip_spikes`)."""
+
+
+def _clip_spikes(ax, ys: Sequence[np.ndarray], unit: str) -> float | None:
+    """Keep a short spike (e.g. the start-up power) from flattening the lines: when the largest
+    value is over 1.5 × the :data:`ROBUST_PERCENTILE` percentile of all samples, the y-range
+    is clipped a little above that percentile and a note on the axes gives the peak. Returns the
+    peak clipped (None when nothing was clipped)."""
+    finite = [np.asarray(y, dtype=float)[np.isfinite(y)] for y in ys]
+    finite = [y for y in finite if y.size]
+    if not finite:
+        return None
+    allv = np.concatenate(finite)
+    peak = float(np.max(allv))
+    lo = float(np.min(allv))
+    top = float(np.percentile(allv, ROBUST_PERCENTILE))
+    if not (peak > 0 and top > 0 and peak > 1.5 * top):
+        return None
+    span = top - min(lo, 0.0)
+    ax.set_ylim(bottom=min(lo, 0.0) - 0.05 * span, top=top + 0.15 * span)
+    ax.text(
+        0.99,
+        0.97,
+        f"y-range clipped at the {ROBUST_PERCENTILE:g}th percentile: peaks up to "
+        f"{peak:.3g} {unit} (start-up) run off the top",
+        transform=ax.transAxes,
+        ha="right",
+        va="top",
+        fontsize=7,
+        style="italic",
+        bbox={"facecolor": "white", "edgecolor": "0.6", "alpha": 0.85, "pad": 2},
+    )
+    return peak
 
 
 def save_figure(fig: Figure, stem: str | Path, *, pdf: bool = False, dpi: int = 130) -> list[Path]:
@@ -103,7 +189,7 @@ def _new(rows: int, cols: int, title: str, size=(11.0, 8.0)) -> tuple[Figure, np
     fig = Figure(figsize=size, layout="constrained")
     FigureCanvasAgg(fig)  # headless: the Agg canvas, never a GUI backend
     axes = np.atleast_1d(fig.subplots(rows, cols, squeeze=False))
-    fig.suptitle(title, fontsize=12, fontweight="bold")
+    fig.suptitle(plain(title), fontsize=12, fontweight="bold")
     for ax in axes.flat:
         ax.grid(True, color="0.85", linewidth=0.6)
     return fig, axes
@@ -112,8 +198,13 @@ def _new(rows: int, cols: int, title: str, size=(11.0, 8.0)) -> tuple[Figure, np
 # ------------------------------------------------------------------ comparisons
 
 
+@_figure
 def overlay_figure(comparison, units: str | OutputUnits = "nautical") -> Figure:
     """Speed, pack power and state of charge of every variant, against time and distance.
+
+    A short start-up power spike does not flatten the lines: the power axes are clipped at a
+    robust percentile, with a note giving the peak (:func:`_clip_spikes`). The legend sits
+    below the panels, off the data.
 
     Parameters
     ----------
@@ -133,12 +224,18 @@ def overlay_figure(comparison, units: str | OutputUnits = "nautical") -> Figure:
         ("state_of_charge", "state of charge [%]", lambda s: 100.0 * s, "state of charge"),
     )
     for i, (key, ylabel, conv, name) in enumerate(rows):
+        ys = []
         for j, r in enumerate(runs):
             s = r.series
             y = conv(np.asarray(s[key]))
+            ys.append(y)
             kw = style(j, len(y))
-            axes[i, 0].plot(np.asarray(s["time_s"]) / tdiv, y, label=r.label, **kw)
-            axes[i, 1].plot(u.distance(np.asarray(s["distance_m"])), y, label=r.label, **kw)
+            label = plain(r.label)
+            axes[i, 0].plot(np.asarray(s["time_s"]) / tdiv, y, label=label, **kw)
+            axes[i, 1].plot(u.distance(np.asarray(s["distance_m"])), y, label=label, **kw)
+        if key == "pack_power_w":
+            for ax in axes[i]:
+                _clip_spikes(ax, ys, punit)
         axes[i, 0].set_ylabel(ylabel)
         axes[i, 1].set_ylabel(ylabel)
         axes[i, 0].set_title(f"{name} against time", fontsize=10)
@@ -146,18 +243,45 @@ def overlay_figure(comparison, units: str | OutputUnits = "nautical") -> Figure:
         axes[i, 0].set_xlabel(tlabel)
         axes[i, 1].set_xlabel(f"distance over ground [{u.distance_label}]")
     if runs:
-        axes[0, 0].legend(fontsize=8, loc="best")
+        handles, labels = axes[0, 0].get_legend_handles_labels()
+        fig.legend(
+            handles,
+            labels,
+            loc="outside lower center",
+            ncols=min(len(labels), 4),
+            fontsize=8,
+            title="variant (ranked best first)",
+            title_fontsize=8,
+        )
     return fig
 
 
 # ------------------------------------------------------------------ one run
 
 
-def _leg_lines(ax, legs, tdiv: float) -> None:
-    for leg in legs[1:]:
-        ax.axvline(float(leg["t_start_s"]) / tdiv, color="0.6", linestyle=":", linewidth=0.8)
+def _leg_lines(ax, legs, tdiv: float, *, names: bool = False) -> None:
+    """Dotted verticals where legs change; with ``names`` each leg's name is written at its
+    start, along the line at the top of the axes."""
+    for k, leg in enumerate(legs):
+        x = float(leg["t_start_s"]) / tdiv
+        if k:
+            ax.axvline(x, color="0.6", linestyle=":", linewidth=0.8)
+        if names:
+            ax.text(
+                x,
+                0.98,
+                " " + plain(leg["name"]),
+                transform=ax.get_xaxis_transform(),
+                rotation=90,
+                ha="left",
+                va="top",
+                fontsize=7,
+                color="0.3",
+                clip_on=True,
+            )
 
 
+@_figure
 def run_figure(
     series: dict,
     units: str | OutputUnits = "nautical",
@@ -167,7 +291,8 @@ def run_figure(
     columns: Sequence[str] = (),
 ) -> Figure:
     """Overview of one run: speeds, distance, powers, state of charge, cell voltage and duct
-    temperature rise against time (dotted verticals mark leg changes).
+    temperature rise against time (dotted verticals mark leg changes; the top panels name the
+    legs).
 
     Parameters
     ----------
@@ -188,7 +313,7 @@ def run_figure(
     ax.plot(tt, u.speed(series["speed_through_water_m_s"]), label="through water", **style(0, n))
     ax.plot(tt, u.speed(series["speed_over_ground_m_s"]), label="over ground", **style(1, n))
     ax.set(title="speed", xlabel=tlabel, ylabel=f"speed [{u.speed_label}]")
-    ax.legend(fontsize=8)
+    _legend(ax)
     ax = axes[0, 1]
     ax.plot(
         tt,
@@ -199,6 +324,7 @@ def run_figure(
     ax.set(title="distance", xlabel=tlabel, ylabel=f"distance [{u.distance_label}]")
     ax = axes[1, 0]
     pdiv, punit = _power_axis(float(np.max(np.abs(series["pack_power_w"]))) if n else 1.0)
+    ys = []
     for i, (key, name) in enumerate(
         (
             ("pack_power_w", "pack terminals"),
@@ -206,9 +332,11 @@ def run_figure(
             ("useful_power_w", "thrust × speed"),
         )
     ):
-        ax.plot(tt, np.asarray(series[key]) / pdiv, label=name, **style(i, n))
+        ys.append(np.asarray(series[key]) / pdiv)
+        ax.plot(tt, ys[-1], label=name, **style(i, n))
     ax.set(title="power", xlabel=tlabel, ylabel=f"power [{punit}]")
-    ax.legend(fontsize=8)
+    _clip_spikes(ax, ys, punit)
+    _legend(ax)
     ax = axes[1, 1]
     ax.plot(
         tt, 100.0 * np.asarray(series["state_of_charge"]), label="state of charge", **style(0, n)
@@ -223,12 +351,15 @@ def run_figure(
     names = list(columns) or [f"thruster {k}" for k in range(rise.shape[1])]
     for k in range(rise.shape[1]):
         ax.plot(
-            tt, rise[:, k], label=names[k] if k < len(names) else f"thruster {k}", **style(k, n)
+            tt,
+            rise[:, k],
+            label=plain(names[k]) if k < len(names) else f"thruster {k}",
+            **style(k, n),
         )
     ax.set(title="duct outlet temperature rise", xlabel=tlabel, ylabel="temperature rise [K]")
-    ax.legend(fontsize=8)
+    _legend(ax)
     for a in axes.flat:
-        _leg_lines(a, legs, tdiv)
+        _leg_lines(a, legs, tdiv, names=a in (axes[0, 0], axes[0, 1]))
     return fig
 
 
@@ -244,10 +375,12 @@ BREAKDOWN = (
 """Where the pack power goes: their sum is the pack terminal power."""
 
 
-def power_breakdown_figure(series: dict, *, title: str = "") -> Figure:
+@_figure
+def power_breakdown_figure(series: dict, *, title: str = "", legs: Sequence[dict] = ()) -> Figure:
     """Stacked areas of where the pack power goes (hatched for greyscale), against time.
 
-    The stack adds up to the pack terminal power (drawn as a black line on top).
+    The stack adds up to the pack terminal power (drawn as a black line on top); dotted
+    verticals mark leg changes, each leg named.
     """
     t = np.asarray(series["time_s"], dtype=float)
     tdiv, tlabel = _time_axis(float(t[-1]) if t.size else 1.0)
@@ -274,6 +407,8 @@ def power_breakdown_figure(series: dict, *, title: str = "") -> Figure:
         label="pack terminals",
     )
     ax.set(xlabel=tlabel, ylabel=f"power [{punit}]", title="pack power by destination")
+    _clip_spikes(ax, [np.asarray(series["pack_power_w"]) / pdiv], punit)
+    _leg_lines(ax, legs, tdiv, names=True)
     ax.legend(fontsize=8, loc="upper left", bbox_to_anchor=(1.0, 1.0))
     return fig
 
@@ -281,6 +416,7 @@ def power_breakdown_figure(series: dict, *, title: str = "") -> Figure:
 # ------------------------------------------------------------------ range curves
 
 
+@_figure
 def range_figure(
     curves: Sequence,
     units: str | OutputUnits = "nautical",
@@ -295,6 +431,7 @@ def range_figure(
     u = output_units(units)
     name = curves[0].vessel if curves else ""
     fig, axes = _new(2, 2, title or f"{name}: steady range and endurance", size=(11.5, 8.0))
+    # (the title goes through plain() in _new)
     pmax = max(
         (float(np.nanmax(c.pack_power_w)) for c in curves if np.isfinite(c.pack_power_w).any()),
         default=1.0,
@@ -303,7 +440,7 @@ def range_figure(
     for i, c in enumerate(curves):
         v = u.speed(c.speed_m_s)
         kw = style(i, len(v))
-        lab = c.label
+        lab = plain(c.label)
         axes[0, 0].plot(v, c.pack_power_w / pdiv, label=lab, **kw)
         axes[0, 1].plot(v, u.distance(c.range_m), label=lab, **kw)
         axes[1, 0].plot(v, c.endurance_s / 3600.0, label=lab, **kw)
@@ -330,13 +467,14 @@ def range_figure(
         ax.set_xlabel(f"speed through water [{u.speed_label}]")
         if at_speed_m_s is not None:
             ax.axvline(u.speed(at_speed_m_s), color="0.3", linestyle=":", linewidth=1.0)
-    axes[0, 1].legend(fontsize=8)
+    _legend(axes[0, 1])
     return fig
 
 
 # ------------------------------------------------------------------ thruster curves
 
 
+@_figure
 def thrust_flow_figure(family) -> Figure:
     """Thrust against volume flow of one unit, one curve per voltage, and the operating line."""
     fig, axes = _new(
@@ -366,10 +504,11 @@ def thrust_flow_figure(family) -> Figure:
         title="each voltage curve is traced by the inflow speed",
     )
     ax.set_ylim(bottom=0.0)
-    ax.legend(fontsize=8, title="electrode voltage")
+    _legend(ax, title="electrode voltage")
     return fig
 
 
+@_figure
 def speed_curves_figure(
     curves, units: str | OutputUnits = "nautical", *, title: str = ""
 ) -> Figure:
@@ -389,7 +528,7 @@ def speed_curves_figure(
         ax.plot(v, 100.0 * arr, label=name, **style(i, n))
     ax.set(title="efficiencies", ylabel="efficiency [%]")
     _plain_log(ax)
-    ax.legend(fontsize=8)
+    _legend(ax)
     ax = axes[0, 1]
     ax.plot(v, curves.current_a, label="total thruster current", **style(0, n))
     ax.set(title="thruster current", ylabel="current [A]")
@@ -407,15 +546,43 @@ def speed_curves_figure(
         ax.plot(v, arr / pdiv, label=name, **style(i, n))
     ax.set(title="power", ylabel=f"power [{punit}]")
     _plain_log(ax)
-    ax.legend(fontsize=8)
+    _legend(ax)
     for ax in axes.flat:
         ax.set_xlabel(f"speed through water [{u.speed_label}]")
     return fig
 
 
+MAP_BANDS = 10
+"""Filled bands of the efficiency map: each holds about the same share of the map's points."""
+
+
+def map_levels(z: np.ndarray, design: float, bands: int = MAP_BANDS) -> np.ndarray:
+    """Contour levels [same unit as ``z``] of an efficiency map: quantiles of the finite values
+    (bands of about equal area, so the design's band says where it stands among the
+    alternatives rather than sitting in one wide low band), with the design's own value added
+    as a level."""
+    finite = np.asarray(z, dtype=float)[np.isfinite(z)]
+    if finite.size < 2 or np.ptp(finite) <= 0:
+        return np.array([])
+    q = np.quantile(finite, np.linspace(0.0, 1.0, bands + 1))
+    if np.isfinite(design) and finite.min() < design < finite.max():
+        q = np.append(q, design)
+    levels = np.unique(q)
+    keep = [levels[0]]
+    for v in levels[1:]:  # drop levels too close to draw apart
+        if v - keep[-1] > 1e-6 * max(abs(v), 1e-12):
+            keep.append(v)
+    return np.asarray(keep)
+
+
+@_figure
 def efficiency_map_figure(emap, units: str | OutputUnits = "nautical") -> Figure:
-    """Overall efficiency over electrode gap × field (grey filled contours with labelled
-    lines); the design is a star, the drive's voltage limit a dashed line."""
+    """Overall efficiency over electrode gap × field (grey filled contours of about equal area
+    with labelled lines, the design's efficiency as a bold line); the design is a white star,
+    the best point on the map and the best buildable point are marked (a best point on the
+    map's edge says so: the optimum lies beyond), the drive's voltage limit is a dashed line,
+    and fields above what the magnet technology can build are hatched above a dash-dot line
+    (:func:`sim.analysis.curves.buildable_field`)."""
     u = output_units(units)
     fig, axes = _new(
         1,
@@ -423,15 +590,22 @@ def efficiency_map_figure(emap, units: str | OutputUnits = "nautical") -> Figure
         f"thruster '{emap.thruster}': overall efficiency at "
         f"{u.speed(emap.speed_m_s):.3g} {u.speed_label}, "
         f"{emap.thrust_n:.3g} N per unit",
-        size=(8.5, 6.5),
+        size=(8.5, 7.2),
     )
     ax = axes[0, 0]
     g = emap.gaps_m * 1000.0
     z = 100.0 * emap.overall_efficiency
-    cf = ax.contourf(g, emap.fields_t, z, levels=12, cmap="Greys")
-    cs = ax.contour(g, emap.fields_t, z, levels=cf.levels, colors="black", linewidths=0.6)
-    ax.clabel(cs, fmt="%.3g %%", fontsize=7)
-    fig.colorbar(cf, ax=ax, label="overall efficiency [%]")
+    design = 100.0 * emap.design_efficiency
+    levels = map_levels(z, design)
+    if levels.size >= 2:
+        norm = BoundaryNorm(levels, ncolors=256)  # one distinct grey per band, not per value
+        cf = ax.contourf(g, emap.fields_t, z, levels=levels, cmap="Greys", norm=norm)
+        cs = ax.contour(g, emap.fields_t, z, levels=levels, colors="black", linewidths=0.5)
+        ax.clabel(cs, fmt="%.3g %%", fontsize=7)
+        fig.colorbar(cf, ax=ax, label="overall efficiency [%]")
+        if levels[0] < design < levels[-1]:
+            ax.contour(g, emap.fields_t, z, levels=[design], colors="black", linewidths=2.0)
+            ax.plot([], [], color="black", linewidth=2.0, label=f"design efficiency {design:.3g} %")
     if np.isfinite(emap.voltage_v).any() and np.nanmax(emap.voltage_v) > emap.drive_max_voltage_v:
         ax.contour(
             g,
@@ -445,6 +619,48 @@ def efficiency_map_figure(emap, units: str | OutputUnits = "nautical") -> Figure
         ax.plot(
             [], [], "k--", label=f"drive maximum {emap.drive_max_voltage_v:g} V (needs more beyond)"
         )
+    limit = float(emap.field_limit_t)
+    fmax = float(np.max(emap.fields_t))
+    if np.isfinite(limit) and limit < fmax:
+        ax.axhspan(limit, fmax, facecolor="none", edgecolor="0.35", hatch="//", linewidth=0.0)
+        ax.axhline(limit, color="black", linestyle="-.", linewidth=1.5)
+        ax.plot(
+            [],
+            [],
+            "k-.",
+            label=f"buildable field limit, {emap.magnet_kind} magnet: {limit:g} T "
+            "(hatched above: not buildable)",
+        )
+    # the map's edge: the grid's outline (a best point on it is no optimum)
+    f0, f1 = float(emap.fields_t[0]), float(emap.fields_t[-1])
+    ax.plot(
+        [g[0], g[-1], g[-1], g[0], g[0]],
+        [f0, f0, f1, f1, f0],
+        color="0.2",
+        linewidth=2.5,
+        label=f"edge of the map ({g[0]:.3g}-{g[-1]:.3g} mm, {f0:.3g}-{f1:.3g} T)",
+        clip_on=False,
+    )
+    for which, marker, name in (
+        (emap.best(), "X", "best on the map"),
+        (emap.best(buildable=True), "P", "best buildable"),
+    ):
+        if which is None:
+            continue
+        iy, ix = which
+        edge = " — at the map's edge" if emap.at_edge(iy, ix) else ""
+        ax.plot(
+            [g[ix]],
+            [emap.fields_t[iy]],
+            linestyle="none",
+            marker=marker,
+            markersize=11,
+            color="white",
+            markeredgecolor="black",
+            clip_on=False,
+            label=f"{name}: {g[ix]:.3g} mm, {emap.fields_t[iy]:.3g} T, "
+            f"{emap.overall_efficiency[iy, ix] * 100:.3g} %{edge}",
+        )
     ax.plot(
         [emap.design_gap_m * 1000.0],
         [emap.design_field_t],
@@ -453,14 +669,14 @@ def efficiency_map_figure(emap, units: str | OutputUnits = "nautical") -> Figure
         markersize=15,
         color="white",
         markeredgecolor="black",
-        label=f"design ({100 * emap.design_efficiency:.3g} %)",
+        label=f"design ({design:.3g} %)",
     )
     ax.set(
         xlabel="electrode gap (duct width) [mm]",
         ylabel="mean gap field [T]",
-        title="same thrust at every point",
+        title="same thrust at every point; grey bands of about equal map area",
     )
     _plain_log(ax, "x")
     _plain_log(ax, "y")
-    ax.legend(fontsize=8, loc="lower right")
+    fig.legend(loc="outside lower center", ncols=2, fontsize=7, framealpha=0.9)
     return fig

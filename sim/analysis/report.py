@@ -8,9 +8,12 @@ the safety cautions. It needs nothing but the log and opens in any browser, offl
 from __future__ import annotations
 
 import base64
+import errno
 import html
 import io
 import json
+import os
+import tempfile
 from pathlib import Path
 
 from sim import __version__
@@ -27,7 +30,13 @@ from sim.analysis.units import OutputUnits, output_units
 from sim.io.log import RunLog, read_log
 from sim.safety import CAUTIONS, gas_caution
 
-__all__ = ["report_html", "write_report"]
+__all__ = [
+    "ReportExistsError",
+    "check_report_out",
+    "default_report_path",
+    "report_html",
+    "write_report",
+]
 
 EXCERPT_LINES = 40
 """Lines of each input file shown in the provenance section."""
@@ -47,14 +56,28 @@ th, td { border-bottom: 1px solid #ccc; padding: 2px 6px; text-align: right; ver
 th { background: #eee; }
 td:first-child, th:first-child { text-align: left; }
 td.text { text-align: left; }
-img { width: 100%; border: 1px solid #ddd; }
+figure { margin: .6em 0; }
+figcaption { color: #444; font-size: .9em; }
+img { width: 100%; max-width: 100%; height: auto; border: 1px solid #ddd; }
 pre { background: #f6f6f6; border: 1px solid #ddd; padding: .5em; font-size: .85em;
       max-height: 22em; overflow: auto; white-space: pre-wrap; }
 .caution { border: 2px solid #000; padding: .5em .8em; background: #fafafa; }
 .caution li { margin: .2em 0; }
 .note { color: #444; font-style: italic; }
-@media print { .grid { grid-template-columns: 1fr 1fr; } pre { max-height: none; } }
+@page { size: A4; margin: 12mm; }
+@media print {
+  body { max-width: none; margin: 0; padding: 0; font-size: 10px; }
+  .grid { display: block; }
+  h2 { break-after: avoid; page-break-after: avoid; }
+  figure, img, table, tr, .caution, pre { break-inside: avoid; page-break-inside: avoid; }
+  thead { display: table-header-group; }
+  figure { break-before: auto; }
+  img { max-width: 100%; height: auto; max-height: 240mm; object-fit: contain; }
+  pre { max-height: none; overflow: visible; }
+}
 """
+"""Screen and print styles. Printed (A4, for design reviews): one column, no figure, table row
+or caution box split across pages, table headers repeated."""
 
 
 def _e(text: object) -> str:
@@ -144,7 +167,9 @@ def report_html(
 
     columns = log.columns.get("duct_temperature_rise_k", [])
     fig1 = plots.run_figure(s, u, title=f"{scen}: run overview", legs=log.legs, columns=columns)
-    fig2 = plots.power_breakdown_figure(s, title=f"{scen}: where the pack power goes")
+    fig2 = plots.power_breakdown_figure(
+        s, title=f"{scen}: where the pack power goes", legs=log.legs
+    )
     img1, img2 = _png(fig1), _png(fig2)
 
     events = log.events
@@ -183,9 +208,12 @@ def report_html(
         _table_html(leg_table(legs, u), text_cols=(0,)),
         range_html,
         "</div></div>",
-        f"<h2>Run</h2><img alt='run overview: speed, distance, power, state of charge, cell "
+        "<h2>Run</h2><figure>",
+        f"<img alt='run overview: speed, distance, power, state of charge, cell "
         f"voltage, duct temperature rise against time' src='{img1}'>",
-        f"<img alt='pack power by destination against time' src='{img2}'>",
+        "<figcaption>Run overview; dotted verticals mark leg changes.</figcaption></figure>",
+        f"<figure><img alt='pack power by destination against time' src='{img2}'>",
+        "<figcaption>Where the pack power goes.</figcaption></figure>",
         "<h2>Safety</h2><div class='caution'><ul>",
         *(f"<li>{_e(c)}</li>" for c in cautions),
         "</ul></div>",
@@ -203,6 +231,80 @@ def report_html(
     return "\n".join(parts)
 
 
+class ReportExistsError(FileExistsError):
+    """The report's output path is taken (a file, a folder or a symbolic link, even a dangling
+    one) and replacing it was not asked for."""
+
+
+def default_report_path(log_path: str | Path, force: bool = False) -> Path:
+    """Beside the log, ``<log stem>.report.html``; when that is taken and ``force`` is not
+    given, the first free ``<log stem>.report-2.html``, ``-3``... (as ``run`` names its logs)."""
+    log_path = Path(log_path)
+    stem = log_path.name
+    for suffix in (".incomplete.h5", ".h5"):
+        if stem.endswith(suffix):
+            stem = stem[: -len(suffix)]
+            break
+    out = log_path.with_name(f"{stem}.report.html")
+    n = 2
+    while not force and os.path.lexists(out):
+        out = log_path.with_name(f"{stem}.report-{n}.html")
+        n += 1
+    return out
+
+
+def check_report_out(out: str | Path, force: bool = False) -> Path:
+    """Refuse an output path that is a folder, or that exists (a symbolic link counts, even a
+    dangling one) without ``force``: the rules of ``run --out``.
+
+    Raises
+    ------
+    ReportExistsError
+    """
+    out = Path(out)
+    if out.is_dir() and not out.is_symlink():
+        raise ReportExistsError(f"{out} is a folder; allowed: a file path, e.g. run.html")
+    if not force and os.path.lexists(out):
+        what = "a symbolic link" if out.is_symlink() else "a file"
+        raise ReportExistsError(f"{out} already exists ({what}); nothing was written")
+    return out
+
+
+def _write_atomic(out: Path, data: bytes, force: bool) -> None:
+    """Write ``data`` to a temporary file beside ``out``, then put it in place in one step:
+    ``os.replace`` with ``force`` (a symbolic link at ``out`` is replaced, never written
+    through), else a hard link that fails if ``out`` appeared meanwhile. Readers see the old
+    file or the whole new one, never a part."""
+    fd, tmp = tempfile.mkstemp(dir=out.parent, prefix=f".{out.name}.", suffix=".tmp")
+    try:
+        with os.fdopen(fd, "wb") as f:
+            f.write(data)
+            f.flush()
+            os.fsync(f.fileno())
+        os.chmod(tmp, 0o666 & ~_umask())
+        if force:
+            os.replace(tmp, out)
+            return
+        try:
+            os.link(tmp, out)
+        except FileExistsError:
+            raise ReportExistsError(f"{out} already exists; nothing was written") from None
+        except OSError as exc:  # a file system without hard links
+            if exc.errno not in (errno.EPERM, errno.ENOTSUP, errno.EOPNOTSUPP, errno.EXDEV):
+                raise
+            check_report_out(out, force=False)
+            os.replace(tmp, out)
+    finally:
+        if os.path.lexists(tmp):
+            os.unlink(tmp)
+
+
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
 def write_report(
     log: str | Path | RunLog,
     out: str | Path | None = None,
@@ -210,33 +312,41 @@ def write_report(
     units: str | OutputUnits = "nautical",
     reserve_soc: float | None = None,
     range_estimate: bool = True,
+    force: bool = False,
 ) -> Path:
     """Write the run report of a log as one self-contained HTML file.
+
+    The rules of ``run --out``: an existing ``out`` (a symbolic link counts, even a dangling
+    one) is refused unless ``force``; the file is written to a temporary file beside it and
+    moved into place in one step, so a reader never sees half a report and a symbolic link at
+    ``out`` is replaced, not written through.
 
     Parameters
     ----------
     log : path or RunLog
     out : path, optional
-        Default: beside the log, ``<log stem>.report.html``.
+        Default: beside the log, ``<log stem>.report.html`` (or the first free
+        ``<log stem>.report-2.html``... when that exists and ``force`` is not given).
     units, reserve_soc, range_estimate
         As in :func:`report_html`.
+    force : bool
+        Replace an existing file at ``out``.
 
     Returns
     -------
     Path
         The file written.
+
+    Raises
+    ------
+    ReportExistsError
+        ``out`` exists and ``force`` is not given, or ``out`` is a folder.
     """
     if not isinstance(log, RunLog):
         log = read_log(log)
-    if out is None:
-        stem = log.path.name
-        for suffix in (".incomplete.h5", ".h5"):
-            if stem.endswith(suffix):
-                stem = stem[: -len(suffix)]
-                break
-        out = log.path.with_name(f"{stem}.report.html")
-    out = Path(out)
+    out = default_report_path(log.path, force) if out is None else Path(out)
+    check_report_out(out, force)
     out.parent.mkdir(parents=True, exist_ok=True)
     text = report_html(log, units=units, reserve_soc=reserve_soc, range_estimate=range_estimate)
-    out.write_text(text, encoding="utf-8")
+    _write_atomic(out, text.encode("utf-8"), force)
     return out
