@@ -68,7 +68,7 @@ pre { background: #f6f6f6; border: 1px solid #ddd; padding: .5em; font-size: .85
 @media print {
   body { max-width: none; margin: 0; padding: 0; font-size: 10px; }
   .grid { display: block; }
-  h2 { break-after: avoid; page-break-after: avoid; }
+  h2, p.label { break-after: avoid; page-break-after: avoid; }
   figure, img, table, tr, .caution, pre { break-inside: avoid; page-break-inside: avoid; }
   thead { display: table-header-group; }
   figure { break-before: auto; }
@@ -222,9 +222,9 @@ def report_html(
         ev_more,
         "</div><div><h2>Provenance</h2>",
         _table_html((["item", "value"], prov_rows)),
-        f"<p><b>scenario file</b> (first {EXCERPT_LINES} lines)</p>",
+        f"<p class='label'><b>scenario file</b> (first {EXCERPT_LINES} lines)</p>",
         f"<pre>{_e(_excerpt(a.get('scenario_text', '')))}</pre>",
-        f"<p><b>vessel file</b> (first {EXCERPT_LINES} lines)</p>",
+        f"<p class='label'><b>vessel file</b> (first {EXCERPT_LINES} lines)</p>",
         f"<pre>{_e(_excerpt(a.get('vessel_text', '')))}</pre>",
         "</div></div></body></html>",
     ]
