@@ -10,6 +10,7 @@ from sim.analysis.units import OutputUnits
 from sim.cli import options
 from sim.cli.core import EXIT_LIMIT, EXIT_OK, Terminated, esc, print_problems, print_table
 from sim.cli.output import TableOutput, add_format
+from sim.io import budget
 from sim.safety import (
     CAUTION_CURRENT,
     CAUTION_FIELD,
@@ -53,6 +54,7 @@ def cmd_run(args) -> int:
     volume = options.parse_positive(args.enclosed_volume, "--enclosed-volume", "volume", '"10 m^3"')
     options.check_log_out(args.out, args.force)
     loaded = api.load_scenario(args.scenario)
+    budget.check_scenario(loaded, sample)  # --sample is held to the work limits too
     print_problems(loaded.warnings + loaded.vessel.warnings, con)
 
     class Bar(RunObserver):
