@@ -10,7 +10,7 @@ import math
 from collections.abc import Sequence
 
 from sim.analysis.units import METRIC, NAUTICAL, OutputUnits, output_units
-from sim.engine.summary import NOT_FINISHED, summarise
+from sim.engine.summary import NOT_FINISHED, summarise, upgrade_summary
 from sim.safety import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L
 
 __all__ = [
@@ -90,7 +90,7 @@ def summary_table(summary: dict, units: str | OutputUnits = "nautical") -> Table
     other system in brackets."""
     u = output_units(units)
     o = _other(u)
-    s = summary
+    s = upgrade_summary(summary)  # an old log's summary has the old efficiency keys
     dist = float(s["distance_m"])
     v = float(s["mean_speed_over_ground_m_s"])
     epd = float(s.get("energy_per_distance_j_m", 0.0))
@@ -100,8 +100,8 @@ def summary_table(summary: dict, units: str | OutputUnits = "nautical") -> Table
         ["mean speed over ground", f"{_speed(v, u)} ({_speed(v, o)})"],
         ["energy from the pack", _energy(float(s["energy_out_j"]))],
         ["energy per distance", f"{_epd(epd, u)} ({_epd(epd, o)})" if dist > 0 else "—"],
-        ["mean overall efficiency", f"{100 * float(s['mean_overall_efficiency']):.3g} %"],
-        ["best overall efficiency", f"{100 * float(s['best_overall_efficiency']):.3g} %"],
+        ["mean overall efficiency", f"{100 * float(s['mean_eta_overall']):.3g} %"],
+        ["best overall efficiency", f"{100 * float(s['best_eta_overall']):.3g} %"],
         ["end state of charge", f"{100 * float(s['end_state_of_charge']):.1f} %"],
         ["peak duct temperature rise", f"{float(s['peak_duct_temperature_rise_k']):.3g} K"],
         ["peak battery temperature", f"{float(s['peak_battery_temperature_c']):.1f} °C"],
@@ -196,7 +196,7 @@ def comparison_table(comparison, units: str | OutputUnits = "nautical") -> Table
                 f"{u.speed(float(s['mean_speed_over_ground_m_s'])):.3f}",
                 _num(NAUTICAL.energy_per_distance(epd), ".4g"),
                 _num(METRIC.energy_per_distance(epd), ".4g"),
-                f"{100 * float(s['mean_overall_efficiency']):.4f}",
+                f"{100 * float(s['mean_eta_overall']):.4f}",
                 f"{float(s['peak_duct_temperature_rise_k']):.3f}",
                 f"{float(s['h2_total_mol']) * H2_MOLAR_VOLUME_L:.1f}",
                 f"{float(s['cl2_total_mol']) * CL2_MOLAR_MASS_G:.1f}",

@@ -138,7 +138,10 @@ def safety_flags(outcome, enclosed_volume_m3: float = DEFAULT_ENCLOSED_M3) -> li
     thrusters = outcome.scenario.vessel.spec.thruster
     return run_flags(
         outcome.result.summary,
-        [t.field for t in thrusters],
+        [
+            t.field if t.field is not None else float(outcome.result.series["field_t"][:, k].max())
+            for k, t in enumerate(thrusters)
+        ],
         superconducting=any(t.magnet == "superconducting" for t in thrusters),
         enclosed_volume_m3=enclosed_volume_m3,
     )
@@ -181,8 +184,8 @@ def summary_rows(summary: dict, units: str | OutputUnits = "nautical") -> list[t
             if dist > 0
             else "—",
         ),
-        ("mean overall efficiency", f"{100 * float(s['mean_overall_efficiency']):.3f} %"),
-        ("best overall efficiency", f"{100 * float(s['best_overall_efficiency']):.3f} %"),
+        ("mean overall efficiency", f"{100 * float(s['mean_eta_overall']):.3f} %"),
+        ("best overall efficiency", f"{100 * float(s['best_eta_overall']):.3f} %"),
         ("end state of charge", f"{100 * float(s['end_state_of_charge']):.1f} %"),
         ("peak duct temperature rise", f"{float(s['peak_duct_temperature_rise_k']):.2f} K"),
         ("peak battery temperature", f"{float(s['peak_battery_temperature_c']):.1f} °C"),
