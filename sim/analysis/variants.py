@@ -480,7 +480,7 @@ RANK_KEYS: dict[str, tuple[str, int, str]] = {
     "distance": ("distance_m", -1, "greatest distance first"),
     "energy": ("energy_per_distance_j_m", 1, "least energy per distance first"),
     "duration": ("duration_s", -1, "longest duration first"),
-    "efficiency": ("mean_overall_efficiency", -1, "highest mean overall efficiency first"),
+    "efficiency": ("mean_eta_overall", -1, "highest mean overall efficiency first"),
     "speed": ("mean_speed_over_ground_m_s", -1, "highest mean speed first"),
 }
 """Ranking choices: name -> (summary key, sign (−1 larger is better), description)."""

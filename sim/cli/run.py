@@ -146,7 +146,10 @@ def safety_flags(outcome, enclosed_volume_m3: float = DEFAULT_ENCLOSED_M3) -> li
     thrusters = outcome.scenario.vessel.spec.thruster
     return run_flags(
         outcome.result.summary,
-        [t.field for t in thrusters],
+        [
+            t.field if t.field is not None else float(outcome.result.series["field_t"][:, k].max())
+            for k, t in enumerate(thrusters)
+        ],
         superconducting=any(t.magnet == "superconducting" for t in thrusters),
         enclosed_volume_m3=enclosed_volume_m3,
     )

@@ -91,8 +91,29 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "thruster_current_a": ("A", "current of each thruster design (all its units)", n, f),
         "thruster_voltage_v": ("V", "electrode voltage of each thruster design", n, f),
         "field_t": ("T", "mean gap field of each thruster design", n, f),
-        "duct_temperature_rise_k": ("K", "outlet minus inlet water temperature, each design", n, f),
+        "duct_temperature_rise_k": (
+            "K",
+            "bulk outlet minus inlet water temperature, each design: (Joule + friction + "
+            "electrode overpotential heat) / (mass flow × c_p)",
+            n,
+            f,
+        ),
+        "duct_joule_rise_k": ("K", "the Joule-heat part of duct_temperature_rise_k", n, f),
         "magnet_temperature_c": ("degC", "lumped magnet temperature of each design", n, f),
+        "effective_thrust_n": (
+            "N",
+            "thrust felt by the hull, Σ T·(1 − thrust deduction), all designs",
+            None,
+            f,
+        ),
+        "end_current_a": (
+            "A",
+            "current fringing beyond the channel ends, each design (0 without end effects)",
+            n,
+            f,
+        ),
+        "void_fraction_mean": ("1", "mean electrolysis-gas void fraction, each design", n, f),
+        "void_fraction_outlet": ("1", "electrolysis-gas void fraction at the outlet", n, f),
         "hull_resistance_n": ("N", "calm-water resistance incl. thruster housings", None, f),
         "thruster_power_w": ("W", "electrical power into all thrusters (V·I)", None, f),
         "pack_power_w": ("W", "power drawn from the battery pack terminals", None, f),
@@ -101,6 +122,21 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "cell_voltage_v": ("V", "terminal voltage per cell", None, f),
         "state_of_charge": ("1", "battery state of charge", None, f),
         "battery_temperature_c": ("degC", "lumped battery temperature", None, f),
+        "battery_heat_w": ("W", "heat generated in the cells (busbar loss excluded)", None, f),
+        "busbar_loss_w": ("W", "I²·R of the pack's busbars, fuses and contactors", None, f),
+        "pack_charge_limit_w": (
+            "W",
+            "greatest charge power the pack accepts (cell maximum voltage less the drive's "
+            "margin, charge-current rating)",
+            None,
+            f,
+        ),
+        "charge_folded": (
+            "1",
+            "1 while the drive folds back regenerated power to the pack's charge limit",
+            None,
+            "int32",
+        ),
         "joule_loss_w": ("W", "ohmic heating of the water in the ducts (J²/σ)", None, f),
         "electrode_loss_w": (
             "W",
@@ -108,14 +144,27 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
             None,
             f,
         ),
+        "electrode_heat_w": (
+            "W",
+            "overpotential × current: the part of the electrode loss released as heat at the "
+            "electrode surfaces",
+            None,
+            f,
+        ),
         "friction_loss_w": ("W", "duct friction and inlet/nozzle losses", None, f),
         "wake_loss_w": ("W", "kinetic energy left in the jet (momentum theory)", None, f),
         "drive_loss_w": ("W", "power-electronics loss", None, f),
         "hotel_power_w": ("W", "hotel and cryocooler loads", None, f),
-        "useful_power_w": ("W", "thrust × speed through water", None, f),
-        "efficiency_electrical": ("1", "flow work / thruster electrical power", None, f),
-        "efficiency_propulsive": ("1", "thrust power / flow work", None, f),
-        "efficiency_overall": ("1", "thrust power / thruster electrical power", None, f),
+        "useful_power_w": ("W", "effective thrust × speed through water", None, f),
+        "hull_interaction_power_w": (
+            "W",
+            "Σ T·V·(1 − w) − effective thrust × V: wake and thrust-deduction share",
+            None,
+            f,
+        ),
+        "eta_electrical": ("1", "flow work / thruster electrical power (V·I)", None, f),
+        "eta_hydraulic": ("1", "thrust power / flow work", None, f),
+        "eta_overall": ("1", "thrust power / thruster electrical power (V·I)", None, f),
         "h2_rate_mol_s": ("mol/s", "hydrogen evolved at the cathodes (Faraday)", None, f),
         "cl2_rate_mol_s": ("mol/s", "chlorine evolved at the anodes (Faraday)", None, f),
         "h2_total_mol": ("mol", "hydrogen evolved since the start", None, f),
@@ -131,12 +180,15 @@ def _ratio(a: float, b: float) -> float:
 def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> dict:
     s = model.evaluate(t, y)
     p, lay = model.plant, model.lay
-    useful = s.total_thrust_n * float(y[I_V])
+    speed = float(y[I_V])
+    useful = s.total_thrust_n * speed
+    extra = model.duct_extras(s, speed)
+    v_rc = float(y[I_RC1]) + float(y[I_RC2])
     return {
         "time_s": t,
         "leg_index": leg_index,
-        "speed_through_water_m_s": float(y[I_V]),
-        "speed_over_ground_m_s": float(y[I_V]) + p.water_current_m_s,
+        "speed_through_water_m_s": speed,
+        "speed_over_ground_m_s": speed + p.water_current_m_s,
         "distance_m": float(y[I_XG]),
         "distance_through_water_m": float(y[I_XW]),
         "thrust_n": list(s.thrust_n),
@@ -144,7 +196,12 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "thruster_voltage_v": list(s.voltage_v),
         "field_t": list(s.field_t),
         "duct_temperature_rise_k": list(s.duct_rise_k),
+        "duct_joule_rise_k": list(s.duct_joule_rise_k),
         "magnet_temperature_c": [float(v) for v in y[lay.i_mag : lay.i_mag + lay.n_thr]],
+        "effective_thrust_n": s.total_thrust_n,
+        "end_current_a": extra["end_current_a"],
+        "void_fraction_mean": extra["void_mean"],
+        "void_fraction_outlet": extra["void_outlet"],
         "hull_resistance_n": s.resistance_n,
         "thruster_power_w": s.thr_power_w,
         "pack_power_w": s.pack_power_w,
@@ -153,22 +210,68 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "cell_voltage_v": s.cell_voltage_v,
         "state_of_charge": float(y[I_SOC]),
         "battery_temperature_c": float(y[I_TB]),
+        "battery_heat_w": s.pack_heat_w,
+        "busbar_loss_w": s.busbar_w,
+        "pack_charge_limit_w": model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB])),
+        "charge_folded": int(s.charge_folded),
         "joule_loss_w": s.joule_w,
         "electrode_loss_w": s.electrode_w,
+        "electrode_heat_w": s.electrode_heat_w,
         "friction_loss_w": s.friction_w,
         "wake_loss_w": s.wake_w,
         "drive_loss_w": s.drive_loss_w,
         "hotel_power_w": s.hotel_w,
         "useful_power_w": useful,
-        "efficiency_electrical": _ratio(s.flow_work_w, s.thr_power_w),
-        "efficiency_propulsive": _ratio(useful, s.flow_work_w),
-        "efficiency_overall": _ratio(useful, s.thr_power_w),
+        "hull_interaction_power_w": s.interaction_w,
+        "eta_electrical": _ratio(s.flow_work_w, s.thr_power_w),
+        "eta_hydraulic": _ratio(useful, s.flow_work_w),
+        "eta_overall": _ratio(useful, s.thr_power_w),
         "h2_rate_mol_s": s.h2,
         "cl2_rate_mol_s": s.cl2,
         "h2_total_mol": float(y[lay.acc["h2_mol"]]),
         "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
         "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
     }
+
+
+CHARGE_FOLD_START = "charge fold-back"
+"""Event kind: the drive starts folding back regenerated power (pack charge limit)."""
+CHARGE_FOLD_END = "charge fold-back end"
+"""Event kind: the drive stops folding back regenerated power."""
+HULL_RANGE = "hull model range"
+"""Event kind (once per run): the speed passed the hull model's data range."""
+
+
+def sample_events(plant: Plant, prev: dict | None, row: dict, seen: set) -> list[tuple[str, str]]:
+    """Events read off consecutive samples: the charge fold-back starting and ending, and (once
+    per run, remembered in ``seen``) the speed passing the hull model's Froude-number range.
+    Returns (kind, message) pairs."""
+    out = []
+    was = bool(prev["charge_folded"]) if prev is not None else False
+    now = bool(row["charge_folded"])
+    if now and not was:
+        out.append(
+            (
+                CHARGE_FOLD_START,
+                "the drive folds back regenerated power: the cells would pass their maximum "
+                f"voltage or charge-current rating (pack accepts {row['pack_charge_limit_w']:.4g}"
+                " W)",
+            )
+        )
+    elif was and not now:
+        out.append((CHARGE_FOLD_END, "regenerated power no longer folded back"))
+    v = abs(row["speed_through_water_m_s"])
+    if HULL_RANGE not in seen and v > plant.hull_max_speed_m_s:
+        seen.add(HULL_RANGE)
+        out.append(
+            (
+                HULL_RANGE,
+                f"speed {v:.3f} m/s is past Froude number {plant.hull_max_froude:g} "
+                f"({plant.hull_max_speed_m_s:.3f} m/s), the end of the hull model's data: "
+                "resistance is extrapolated",
+            )
+        )
+    return out
 
 
 # ------------------------------------------------------------------ observers and results
@@ -257,6 +360,7 @@ class MissionRunner:
         self._legs_out: list[dict] = []
         self._rows: list[dict] = []
         self._pending_rows: list[dict] = []
+        self._seen: set = set()  # once-per-run sample events already emitted
         self.chunk_wall_s = chunk_wall_s
         lay = self.model.lay
         self.atol = np.full(lay.size, 1e-6)
@@ -436,6 +540,10 @@ class MissionRunner:
                     self.legs[self.m.leg_index].name,
                     self._state_dict(y),
                 )
+        for kind, message in sample_events(
+            self.plant, self._rows[-1] if self._rows else None, row, self._seen
+        ):
+            self._emit(t, kind, self.m.leg_index, message)
         self._rows.append(row)
         self._pending_rows.append(row)
 

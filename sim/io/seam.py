@@ -99,6 +99,20 @@ def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
         housing_form_factor=t.housing_form_factor,
         magnet_heat_capacity_j_k=t.magnet_heat_capacity,
         magnet_conductance_w_k=t.magnet_conductance,
+        channel_wiring=t.channel_wiring,
+        wake_fraction=t.wake_fraction,
+        thrust_deduction=t.thrust_deduction,
+        gas_model=t.gas_model,
+        gas_slip_ratio=t.gas_slip_ratio,
+        end_effects=t.end_effects,
+        magnet_blocks=None
+        if t.magnet_blocks is None
+        else spec.MagnetBlocksSpec(
+            width_m=t.magnet_blocks.width,
+            length_m=t.magnet_blocks.length,
+            thickness_m=t.magnet_blocks.thickness,
+            grade=t.magnet_blocks.grade,
+        ),
     )
 
 
@@ -123,6 +137,7 @@ def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
             max_voltage_v=d.max_voltage,
             efficiency=d.efficiency,
             undervoltage_margin_v=d.undervoltage_margin,
+            overvoltage_margin_v=d.overvoltage_margin,
         ),
         added_mass_rule=rule,
         added_mass_value=value,
