@@ -252,6 +252,7 @@ def test_steady_columns_are_the_ones_the_command_prints():
     from sim.cli import steady
 
     tree = ast.parse(inspect.getsource(steady.cmd_steady))
+
     def default(e):  # the nautical default of `"speed m/s" if metric else "speed kn"`
         return ast.literal_eval(e.orelse if isinstance(e, ast.IfExp) else e)
 

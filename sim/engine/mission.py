@@ -346,12 +346,20 @@ class MissionRunner:
             hotel_w=leg.hotel_w if leg.hotel_w is not None else m.base_hotel_w,
         )
         y = y.copy()
-        if c.mode == "speed":
+        note = ""
+        if c.mode == "speed" and c.target == 0.0:
+            # A held speed of zero is thrust off: zero electrode current (the command sits in
+            # the electrodes' dead band) and the vessel coasts to rest. A PI loop about zero
+            # speed would have to cross the dead band at every sign change of the error, and
+            # its linearised gain there is zero: it chattered between ±max voltage.
+            c = Control(mode="current", setpoint=0.0, derate=m.derate, hotel_w=c.hotel_w)
+            note = " (thrust off: coasting to rest)"
+        elif c.mode == "speed":
             self._tune_speed_hold(c, leg, y)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
         self.model.invalidate()
-        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}")
+        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}{note}")
         return y
 
     def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
@@ -522,15 +530,30 @@ class MissionRunner:
                 if len(te) and te[0] < best:
                     best, fired = float(te[0]), c
                     t_end, y_end = float(te[0]), ye[0].copy()
-        # samples on the global grid inside (t0, t_end), then the segment end itself
-        k0 = math.floor(t0 / self.sample_s) + 1
-        k1 = math.ceil(t_end / self.sample_s) - 1
-        if k1 >= k0:
-            ts = np.arange(k0, k1 + 1) * self.sample_s
-            ys = sol.sol(ts)
-            for j, ts_j in enumerate(ts):
-                self._record(float(ts_j), ys[:, j])
+        self._record_grid(t0, t_end, y_end, sol)
         return t_end, y_end, fired, sol
+
+    def _record_grid(self, t0: float, t_end: float, y_end: np.ndarray, sol) -> None:
+        """Record every point k·sample_s of the global grid not yet written, up to and including
+        the segment end: each grid point is written exactly once, whatever ends the segments
+        (leg ends, events, scheduled changes, chunk boundaries). A grid point at the segment end
+        itself takes the segment's end state (before any event there acts)."""
+        k0 = self._next_k
+        k1 = math.floor(t_end / self.sample_s)
+        if k1 < k0:
+            return
+        ts = np.arange(k0, k1 + 1) * self.sample_s
+        ts = ts[ts <= t_end]  # floor() of a rounded quotient may overshoot by one point
+        if not ts.size:
+            return
+        self._next_k = k0 + ts.size
+        inside = ts[(ts >= t0) & (ts < t_end)]
+        if inside.size:
+            ys = sol.sol(inside)
+            for j, ts_j in enumerate(inside):
+                self._record(float(ts_j), ys[:, j])
+        if ts[-1] == t_end:
+            self._record(t_end, y_end)
 
     # ------------------------------------------------------------------ the mission process
     def _process(self, env: simpy.Environment, y: np.ndarray):
@@ -538,6 +561,7 @@ class MissionRunner:
         t = 0.0
         y = self._start_leg(0, t, y)
         self._record(t, y)
+        self._next_k = 1  # the next grid point to write (k·sample_s)
         wall0 = last_flush = _time.perf_counter()
         chunk = self.time_limit / 50.0  # progress and flushes on long legs
         while True:
@@ -569,7 +593,7 @@ class MissionRunner:
                         y = self._next_leg(t, y, f"duration {leg.duration_s:g} s")
                         if m.ending:
                             return
-                    continue  # a chunk boundary or a scheduled event: nothing to record
+                    continue  # a chunk boundary or a scheduled event: its grid point is written
             self._record(t, y)
             y = self._handle(fired, t, y)
             if m.ending:
