@@ -25,6 +25,7 @@ from sim.engine.conditions import (
     CellVoltageBelow,
     Condition,
     DuctTemperatureRiseAbove,
+    Duration,
     MagnetGradeLimit,
     MagnetTemperatureAbove,
     PackHeadroomExhausted,
@@ -272,10 +273,10 @@ class MissionRunner:
     # ------------------------------------------------------------------ conditions
     def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
         """Signed distance of a condition from its threshold."""
-        return c.cond(t, y, self.model, self.m.leg_x0)
+        return c.cond(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _holds(self, c: _Armed, t: float, y: np.ndarray) -> bool:
-        return c.cond.holds(t, y, self.model, self.m.leg_x0)
+        return c.cond.holds(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _stop_conditions(self) -> list[_Armed]:
         lim = self.mission.limits
@@ -325,7 +326,12 @@ class MissionRunner:
     def _active_conditions(self) -> list[_Armed]:
         m = self.m
         leg = self.legs[m.leg_index]
-        conds = [_Armed("leg", c, m.leg_index, leg.name) for c in leg.until]
+        # a leg's duration ends it at a known time (the segment horizon), not a located event
+        conds = [
+            _Armed("leg", c, m.leg_index, leg.name)
+            for c in leg.until
+            if not isinstance(c, Duration)
+        ]
         for i, trig in enumerate(self.triggers):
             if i not in m.fired:
                 conds += [_Armed("trigger", c, i, trig.name) for c in trig.when]
@@ -590,7 +596,7 @@ class MissionRunner:
                         return
                     if t >= leg_end:
                         self._record(t, y)
-                        y = self._next_leg(t, y, f"duration {leg.duration_s:g} s")
+                        y = self._next_leg(t, y, _duration_text(leg))
                         if m.ending:
                             return
                     continue  # a chunk boundary or a scheduled event: its grid point is written
@@ -731,6 +737,14 @@ class MissionRunner:
             wall_time_s=wall,
             rhs_calls=self.model.n_rhs,
         )
+
+
+def _duration_text(leg: LegSpec) -> str:
+    """'duration 75 min': the leg's duration as its file wrote it, when the spec carries it."""
+    for c in leg.until:
+        if isinstance(c, Duration) and c.threshold == leg.duration_s:
+            return c.describe()
+    return f"duration {leg.duration_s:g} s"
 
 
 def _describe(leg: LegSpec, derate: float) -> str:

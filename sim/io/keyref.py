@@ -273,6 +273,8 @@ def _shape(annotation, metadata, where: str) -> _Shape:
         return shape
     if isinstance(annotation, type) and issubclass(annotation, BaseModel):
         return _Shape(unit="table", models=(annotation,))
+    if annotation is bool:
+        return _Shape(unit="boolean", allowed=["`true` or `false`"])
     shape = _Shape(unit="text" if annotation is str else "")
     _apply_metadata(shape, metadata, where, text=annotation is str)
     if not shape.unit:
