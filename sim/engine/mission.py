@@ -48,6 +48,7 @@ from sim.engine.plant import Plant
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
+from sim.physics.constants import KNOT_M_S
 
 __all__ = [
     "SUMMARY_UNITS",  # re-exported from sim.engine.summary
@@ -122,6 +123,25 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "h2_total_mol": ("mol", "hydrogen evolved since the start", None, f),
         "cl2_total_mol": ("mol", "chlorine evolved since the start", None, f),
         "energy_out_j": ("J", "energy drawn from the pack terminals since the start", None, f),
+        "drive_saturated": (
+            "1",
+            "1 while the drive clamps the command at its current or voltage limit, else 0",
+            None,
+            "int32",
+        ),
+        "power_folded": (
+            "1",
+            "1 while the drive folds back to the pack's power limit, else 0",
+            None,
+            "int32",
+        ),
+        "speed_short_m_s": (
+            "m/s",
+            "held speed minus speed through water while the speed hold is at a drive or pack "
+            "limit (0 otherwise)",
+            None,
+            f,
+        ),
     }
 
 
@@ -169,7 +189,51 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "h2_total_mol": float(y[lay.acc["h2_mol"]]),
         "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
         "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
+        "drive_saturated": int(bool(s.saturated) and not s.folded),
+        "power_folded": int(bool(s.folded)),
+        "speed_short_m_s": _speed_short(model, float(y[I_V]), s),
     }
+
+
+def _speed_short(model: VesselModel, speed: float, s) -> float:
+    """How far a speed hold falls short of its target [m/s] while the drive cannot give more
+    (saturated or folded back); 0 when the leg holds no speed or the drive has margin left."""
+    c = model.control
+    if c.mode != "speed" or not s.saturated:
+        return 0.0
+    return max(0.0, c.target - speed)
+
+
+SPEED_SHORT_TOLERANCE = 0.02
+"""A speed hold counts as not held when its shortfall at a drive or pack limit exceeds this
+fraction of the target (and at least :data:`SPEED_SHORT_MIN_M_S`) (project choice)."""
+SPEED_SHORT_MIN_M_S = 0.01
+"""Smallest shortfall counted as a speed not held [m/s] (project choice)."""
+LIMIT_DWELL_S = 30.0
+"""A saturation, fold-back or speed shortfall (and its end) is reported as an event once it has
+lasted this long on the logged samples [s], so a drive hovering at a limit does not flood the
+event list (project choice)."""
+
+
+class _Episode:
+    """A flag on the sample rows, debounced: it changes state (and reports it) only once the new
+    state has lasted :data:`LIMIT_DWELL_S`."""
+
+    def __init__(self) -> None:
+        self.on = False
+        self.since: float | None = None
+
+    def update(self, t: float, raw: bool) -> bool:
+        """Feed one sample; True when the reported state changes at this sample."""
+        if raw == self.on:
+            self.since = None
+            return False
+        if self.since is None:
+            self.since = t
+        if t - self.since >= LIMIT_DWELL_S:
+            self.on, self.since = raw, None
+            return True
+        return False
 
 
 # ------------------------------------------------------------------ observers and results
@@ -258,6 +322,8 @@ class MissionRunner:
         self._legs_out: list[dict] = []
         self._rows: list[dict] = []
         self._pending_rows: list[dict] = []
+        self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
+        self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
         lay = self.model.lay
         self.atol = np.full(lay.size, 1e-6)
@@ -397,6 +463,15 @@ class MissionRunner:
         probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
         mid = probe.evaluate(0.0, yy)
         gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
+        if gain <= 1e-9 and ff > 0.0:
+            # The thrust does not respond to the command at the feed-forward point: the drive is
+            # at its current limit there (a speed it cannot reach) or the command sits in the
+            # electrodes' dead band. The local slope (zero) would give an unbounded gain and a
+            # loop that chatters once the target becomes reachable (e.g. after a derate); use
+            # the mean slope of thrust against command from zero to the feed-forward instead.
+            probe.control = Control(mode="voltage", setpoint=0.0, hotel_w=c.hotel_w)
+            zero = probe.evaluate(0.0, yy)
+            gain = (mid.total_thrust_n - zero.total_thrust_n) / ff
         mass = p.total_mass_kg
         damping = max(damping, 1e-6)
         gain = max(gain, 1e-9)
@@ -452,6 +527,54 @@ class MissionRunner:
                 )
         self._rows.append(row)
         self._pending_rows.append(row)
+        self._watch_limits(row)
+
+    def _watch_limits(self, row: dict) -> None:
+        """Events when the drive starts or stops saturating, folding back, or falling short of a
+        held speed (debounced on the samples: :class:`_Episode`)."""
+        t, leg = row["time_s"], row["leg_index"]
+        ep = self._episodes
+        if leg != self._episode_leg:  # a new leg asks for a new speed: start afresh
+            self._episode_leg = leg
+            ep["speed"] = _Episode()
+        if ep["drive"].update(t, bool(row["drive_saturated"])):
+            if ep["drive"].on:
+                self._emit(t, "saturation", leg, f"drive at its {self._which_limit(row)}")
+            else:
+                self._emit(t, "saturation", leg, "drive back within its current and voltage limits")
+        if ep["fold"].update(t, bool(row["power_folded"])):
+            if ep["fold"].on:
+                self._emit(
+                    t,
+                    "saturation",
+                    leg,
+                    "power folded back: the pack limits the drive to "
+                    f"{row['pack_power_w'] / 1000:.3g} kW from the pack",
+                )
+            else:
+                self._emit(t, "saturation", leg, "power fold-back ended")
+        c = self.model.control
+        short = row["speed_short_m_s"]
+        target = c.target if c.mode == "speed" else 0.0
+        tol = max(SPEED_SHORT_TOLERANCE * target, SPEED_SHORT_MIN_M_S)
+        if ep["speed"].update(t, short > tol):
+            v = row["speed_through_water_m_s"]
+            held = "not held" if ep["speed"].on else "held again"
+            self._emit(
+                t,
+                "saturation",
+                leg,
+                f"speed {held}: {v / KNOT_M_S:.2f} kn of {target / KNOT_M_S:.2f} kn asked "
+                f"({v:.3g} of {target:.3g} m/s)",
+            )
+
+    def _which_limit(self, row: dict) -> str:
+        p = self.plant
+        imax = p.drive_max_current_a
+        for i, u in zip(row["thruster_current_a"], p.thrusters, strict=True):
+            if abs(i) / u.units >= imax * (1.0 - 1e-6):
+                return f"current limit ({imax:g} A per unit)"
+        return f"voltage limit ({p.drive_max_voltage_v:g} V)"
 
     def _state_dict(self, y: np.ndarray) -> dict:
         lay = self.model.lay
