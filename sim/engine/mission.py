@@ -25,6 +25,7 @@ from sim.engine.conditions import (
     CellVoltageBelow,
     Condition,
     DuctTemperatureRiseAbove,
+    Duration,
     MagnetGradeLimit,
     MagnetTemperatureAbove,
     PackHeadroomExhausted,
@@ -47,6 +48,7 @@ from sim.engine.plant import Plant
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
+from sim.physics.constants import KNOT_M_S
 
 __all__ = [
     "SUMMARY_UNITS",  # re-exported from sim.engine.summary
@@ -170,6 +172,25 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "h2_total_mol": ("mol", "hydrogen evolved since the start", None, f),
         "cl2_total_mol": ("mol", "chlorine evolved since the start", None, f),
         "energy_out_j": ("J", "energy drawn from the pack terminals since the start", None, f),
+        "drive_saturated": (
+            "1",
+            "1 while the drive clamps the command at its current or voltage limit, else 0",
+            None,
+            "int32",
+        ),
+        "power_folded": (
+            "1",
+            "1 while the drive folds back to the pack's power limit, else 0",
+            None,
+            "int32",
+        ),
+        "speed_short_m_s": (
+            "m/s",
+            "held speed minus speed through water while the speed hold is at a drive or pack "
+            "limit (0 otherwise)",
+            None,
+            f,
+        ),
     }
 
 
@@ -231,6 +252,9 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "h2_total_mol": float(y[lay.acc["h2_mol"]]),
         "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
         "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
+        "drive_saturated": int(bool(s.saturated) and not s.folded),
+        "power_folded": int(bool(s.folded)),
+        "speed_short_m_s": _speed_short(model, float(y[I_V]), s),
     }
 
 
@@ -272,6 +296,47 @@ def sample_events(plant: Plant, prev: dict | None, row: dict, seen: set) -> list
             )
         )
     return out
+
+
+def _speed_short(model: VesselModel, speed: float, s) -> float:
+    """How far a speed hold falls short of its target [m/s] while the drive cannot give more
+    (saturated or folded back); 0 when the leg holds no speed or the drive has margin left."""
+    c = model.control
+    if c.mode != "speed" or not s.saturated:
+        return 0.0
+    return max(0.0, c.target - speed)
+
+
+SPEED_SHORT_TOLERANCE = 0.02
+"""A speed hold counts as not held when its shortfall at a drive or pack limit exceeds this
+fraction of the target (and at least :data:`SPEED_SHORT_MIN_M_S`) (project choice)."""
+SPEED_SHORT_MIN_M_S = 0.01
+"""Smallest shortfall counted as a speed not held [m/s] (project choice)."""
+LIMIT_DWELL_S = 30.0
+"""A saturation, fold-back or speed shortfall (and its end) is reported as an event once it has
+lasted this long on the logged samples [s], so a drive hovering at a limit does not flood the
+event list (project choice)."""
+
+
+class _Episode:
+    """A flag on the sample rows, debounced: it changes state (and reports it) only once the new
+    state has lasted :data:`LIMIT_DWELL_S`."""
+
+    def __init__(self) -> None:
+        self.on = False
+        self.since: float | None = None
+
+    def update(self, t: float, raw: bool) -> bool:
+        """Feed one sample; True when the reported state changes at this sample."""
+        if raw == self.on:
+            self.since = None
+            return False
+        if self.since is None:
+            self.since = t
+        if t - self.since >= LIMIT_DWELL_S:
+            self.on, self.since = raw, None
+            return True
+        return False
 
 
 # ------------------------------------------------------------------ observers and results
@@ -361,6 +426,8 @@ class MissionRunner:
         self._rows: list[dict] = []
         self._pending_rows: list[dict] = []
         self._seen: set = set()  # once-per-run sample events already emitted
+        self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
+        self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
         lay = self.model.lay
         self.atol = np.full(lay.size, 1e-6)
@@ -376,10 +443,10 @@ class MissionRunner:
     # ------------------------------------------------------------------ conditions
     def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
         """Signed distance of a condition from its threshold."""
-        return c.cond(t, y, self.model, self.m.leg_x0)
+        return c.cond(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _holds(self, c: _Armed, t: float, y: np.ndarray) -> bool:
-        return c.cond.holds(t, y, self.model, self.m.leg_x0)
+        return c.cond.holds(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _stop_conditions(self) -> list[_Armed]:
         lim = self.mission.limits
@@ -429,7 +496,12 @@ class MissionRunner:
     def _active_conditions(self) -> list[_Armed]:
         m = self.m
         leg = self.legs[m.leg_index]
-        conds = [_Armed("leg", c, m.leg_index, leg.name) for c in leg.until]
+        # a leg's duration ends it at a known time (the segment horizon), not a located event
+        conds = [
+            _Armed("leg", c, m.leg_index, leg.name)
+            for c in leg.until
+            if not isinstance(c, Duration)
+        ]
         for i, trig in enumerate(self.triggers):
             if i not in m.fired:
                 conds += [_Armed("trigger", c, i, trig.name) for c in trig.when]
@@ -450,12 +522,20 @@ class MissionRunner:
             hotel_w=leg.hotel_w if leg.hotel_w is not None else m.base_hotel_w,
         )
         y = y.copy()
-        if c.mode == "speed":
+        note = ""
+        if c.mode == "speed" and c.target == 0.0:
+            # A held speed of zero is thrust off: zero electrode current (the command sits in
+            # the electrodes' dead band) and the vessel coasts to rest. A PI loop about zero
+            # speed would have to cross the dead band at every sign change of the error, and
+            # its linearised gain there is zero: it chattered between ±max voltage.
+            c = Control(mode="current", setpoint=0.0, derate=m.derate, hotel_w=c.hotel_w)
+            note = " (thrust off: coasting to rest)"
+        elif c.mode == "speed":
             self._tune_speed_hold(c, leg, y)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
         self.model.invalidate()
-        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}")
+        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}{note}")
         return y
 
     def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
@@ -487,6 +567,15 @@ class MissionRunner:
         probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
         mid = probe.evaluate(0.0, yy)
         gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
+        if gain <= 1e-9 and ff > 0.0:
+            # The thrust does not respond to the command at the feed-forward point: the drive is
+            # at its current limit there (a speed it cannot reach) or the command sits in the
+            # electrodes' dead band. The local slope (zero) would give an unbounded gain and a
+            # loop that chatters once the target becomes reachable (e.g. after a derate); use
+            # the mean slope of thrust against command from zero to the feed-forward instead.
+            probe.control = Control(mode="voltage", setpoint=0.0, hotel_w=c.hotel_w)
+            zero = probe.evaluate(0.0, yy)
+            gain = (mid.total_thrust_n - zero.total_thrust_n) / ff
         mass = p.total_mass_kg
         damping = max(damping, 1e-6)
         gain = max(gain, 1e-9)
@@ -546,6 +635,54 @@ class MissionRunner:
             self._emit(t, kind, self.m.leg_index, message)
         self._rows.append(row)
         self._pending_rows.append(row)
+        self._watch_limits(row)
+
+    def _watch_limits(self, row: dict) -> None:
+        """Events when the drive starts or stops saturating, folding back, or falling short of a
+        held speed (debounced on the samples: :class:`_Episode`)."""
+        t, leg = row["time_s"], row["leg_index"]
+        ep = self._episodes
+        if leg != self._episode_leg:  # a new leg asks for a new speed: start afresh
+            self._episode_leg = leg
+            ep["speed"] = _Episode()
+        if ep["drive"].update(t, bool(row["drive_saturated"])):
+            if ep["drive"].on:
+                self._emit(t, "saturation", leg, f"drive at its {self._which_limit(row)}")
+            else:
+                self._emit(t, "saturation", leg, "drive back within its current and voltage limits")
+        if ep["fold"].update(t, bool(row["power_folded"])):
+            if ep["fold"].on:
+                self._emit(
+                    t,
+                    "saturation",
+                    leg,
+                    "power folded back: the pack limits the drive to "
+                    f"{row['pack_power_w'] / 1000:.3g} kW from the pack",
+                )
+            else:
+                self._emit(t, "saturation", leg, "power fold-back ended")
+        c = self.model.control
+        short = row["speed_short_m_s"]
+        target = c.target if c.mode == "speed" else 0.0
+        tol = max(SPEED_SHORT_TOLERANCE * target, SPEED_SHORT_MIN_M_S)
+        if ep["speed"].update(t, short > tol):
+            v = row["speed_through_water_m_s"]
+            held = "not held" if ep["speed"].on else "held again"
+            self._emit(
+                t,
+                "saturation",
+                leg,
+                f"speed {held}: {v / KNOT_M_S:.2f} kn of {target / KNOT_M_S:.2f} kn asked "
+                f"({v:.3g} of {target:.3g} m/s)",
+            )
+
+    def _which_limit(self, row: dict) -> str:
+        p = self.plant
+        imax = p.drive_max_current_a
+        for i, u in zip(row["thruster_current_a"], p.thrusters, strict=True):
+            if abs(i) / u.units >= imax * (1.0 - 1e-6):
+                return f"current limit ({imax:g} A per unit)"
+        return f"voltage limit ({p.drive_max_voltage_v:g} V)"
 
     def _state_dict(self, y: np.ndarray) -> dict:
         lay = self.model.lay
@@ -630,15 +767,30 @@ class MissionRunner:
                 if len(te) and te[0] < best:
                     best, fired = float(te[0]), c
                     t_end, y_end = float(te[0]), ye[0].copy()
-        # samples on the global grid inside (t0, t_end), then the segment end itself
-        k0 = math.floor(t0 / self.sample_s) + 1
-        k1 = math.ceil(t_end / self.sample_s) - 1
-        if k1 >= k0:
-            ts = np.arange(k0, k1 + 1) * self.sample_s
-            ys = sol.sol(ts)
-            for j, ts_j in enumerate(ts):
-                self._record(float(ts_j), ys[:, j])
+        self._record_grid(t0, t_end, y_end, sol)
         return t_end, y_end, fired, sol
+
+    def _record_grid(self, t0: float, t_end: float, y_end: np.ndarray, sol) -> None:
+        """Record every point k·sample_s of the global grid not yet written, up to and including
+        the segment end: each grid point is written exactly once, whatever ends the segments
+        (leg ends, events, scheduled changes, chunk boundaries). A grid point at the segment end
+        itself takes the segment's end state (before any event there acts)."""
+        k0 = self._next_k
+        k1 = math.floor(t_end / self.sample_s)
+        if k1 < k0:
+            return
+        ts = np.arange(k0, k1 + 1) * self.sample_s
+        ts = ts[ts <= t_end]  # floor() of a rounded quotient may overshoot by one point
+        if not ts.size:
+            return
+        self._next_k = k0 + ts.size
+        inside = ts[(ts >= t0) & (ts < t_end)]
+        if inside.size:
+            ys = sol.sol(inside)
+            for j, ts_j in enumerate(inside):
+                self._record(float(ts_j), ys[:, j])
+        if ts[-1] == t_end:
+            self._record(t_end, y_end)
 
     # ------------------------------------------------------------------ the mission process
     def _process(self, env: simpy.Environment, y: np.ndarray):
@@ -646,6 +798,7 @@ class MissionRunner:
         t = 0.0
         y = self._start_leg(0, t, y)
         self._record(t, y)
+        self._next_k = 1  # the next grid point to write (k·sample_s)
         wall0 = last_flush = _time.perf_counter()
         chunk = self.time_limit / 50.0  # progress and flushes on long legs
         while True:
@@ -674,10 +827,10 @@ class MissionRunner:
                         return
                     if t >= leg_end:
                         self._record(t, y)
-                        y = self._next_leg(t, y, f"duration {leg.duration_s:g} s")
+                        y = self._next_leg(t, y, _duration_text(leg))
                         if m.ending:
                             return
-                    continue  # a chunk boundary or a scheduled event: nothing to record
+                    continue  # a chunk boundary or a scheduled event: its grid point is written
             self._record(t, y)
             y = self._handle(fired, t, y)
             if m.ending:
@@ -815,6 +968,14 @@ class MissionRunner:
             wall_time_s=wall,
             rhs_calls=self.model.n_rhs,
         )
+
+
+def _duration_text(leg: LegSpec) -> str:
+    """'duration 75 min': the leg's duration as its file wrote it, when the spec carries it."""
+    for c in leg.until:
+        if isinstance(c, Duration) and c.threshold == leg.duration_s:
+            return c.describe()
+    return f"duration {leg.duration_s:g} s"
 
 
 def _describe(leg: LegSpec, derate: float) -> str:

@@ -7,6 +7,7 @@ analysis passes the series alone). Nothing here reads files.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping
 
 import numpy as np
@@ -45,6 +46,10 @@ SUMMARY_UNITS = {
     "charge_folded_s": "s",
     "peak_void_fraction_outlet": "1",
     "peak_end_current_a": "A",
+    "time_drive_saturated_s": "s",
+    "time_power_folded_s": "s",
+    "time_speed_short_s": "s",
+    "drive_limit_episodes": "1",
     "ending_reason": "",
 }
 """Summary key -> unit text ("" for the ending reason), in the summary's key order."""
@@ -88,6 +93,15 @@ def _trapezoid(y: np.ndarray, t: np.ndarray) -> float:
     return float(np.sum(0.5 * (y[1:] + y[:-1]) * np.diff(t))) if t.size > 1 else 0.0
 
 
+def _time_flagged(flag: np.ndarray | None, t: np.ndarray) -> float:
+    """Time [s] during which a per-sample flag is set, each sample standing for the interval up
+    to the next one; NaN when the series lacks the channel (logs written before it existed)."""
+    if flag is None:
+        return math.nan
+    on = np.asarray(flag, dtype=float)[:-1] > 0
+    return float(np.sum(np.diff(t)[on])) if t.size > 1 else 0.0
+
+
 def summarise(
     series: Mapping[str, np.ndarray],
     *,
@@ -118,8 +132,12 @@ def summarise(
         charge [-], peak duct temperature rise [K], peak battery and magnet temperatures [°C],
         gas evolved [mol], peak pack and total thruster currents [A], busbar loss energy and
         hull-interaction energy (wake and thrust deduction) [J], time with regenerated power
-        folded back [s], peak outlet void fraction [-], peak end-fringing current [A], and the
-        ending reason. Channels an old log lacks count as zero.
+        folded back [s], peak outlet void fraction [-], peak end-fringing current [A], the time
+        the drive spent clamped at its current or voltage limit, folded back to the pack's power
+        limit, and short of a held speed at a limit [s] (each sample standing for the interval to
+        the next; NaN for a log without those channels), the number of separate spells at a
+        drive or pack limit (counted on the samples), and the ending reason. Other channels an
+        old log lacks count as zero.
 
     Notes
     -----
@@ -174,6 +192,13 @@ def summarise(
 
     driving = np.asarray(s["thruster_power_w"]) > 0
     thruster_current = np.asarray(s["thruster_current_a"], dtype=float).reshape(n, -1)
+    sat, fold = s.get("drive_saturated"), s.get("power_folded")
+    short = s.get("speed_short_m_s")
+    if sat is not None and fold is not None:
+        limited = (np.asarray(sat) > 0) | (np.asarray(fold) > 0)
+        episodes = float(np.count_nonzero(limited[1:] & ~limited[:-1]) + int(limited[0]))
+    else:
+        episodes = math.nan
     return {
         "distance_m": dist,
         "duration_s": dur,
@@ -196,5 +221,9 @@ def summarise(
         "charge_folded_s": folded_s,
         "peak_void_fraction_outlet": peak("void_fraction_outlet"),
         "peak_end_current_a": peak("end_current_a"),
+        "time_drive_saturated_s": _time_flagged(sat, t),
+        "time_power_folded_s": _time_flagged(fold, t),
+        "time_speed_short_s": _time_flagged(short, t),
+        "drive_limit_episodes": episodes,
         "ending_reason": ending_reason,
     }

@@ -17,6 +17,7 @@ from pydantic import (
     BeforeValidator,
     ConfigDict,
     Field,
+    PrivateAttr,
     Strict,
     model_validator,
 )
@@ -709,8 +710,9 @@ class Conditions(_Strict):
     acts at once."""
 
     duration: quantity("time", gt=0, optional=True) = None
-    """Time since the current leg started. Only a leg's `until` watches it: in a trigger's `when` it
-    never fires (use time_after).
+    """Time since the current leg started. In a trigger's `when`, too, it counts from the start of
+    whichever leg is being flown (like distance), so the trigger fires in the first leg that lasts
+    this long; use time_after for a time since the start of the run.
 
     Default: not watched."""
     distance: quantity("distance", gt=0, optional=True) = None
@@ -754,9 +756,37 @@ class Conditions(_Strict):
     """Distance over ground since the start of the run at or above this.
 
     Default: not watched."""
+    return_to_start: bool | None = None
+    """true: the vessel is back at its start point. The model is one-dimensional along the track:
+    the position is the signed distance over ground since the start of the run (astern legs and a
+    head current bring it back down), and the condition holds when that position falls to zero or
+    below, i.e. when the vessel is back at (or behind) where the run began. It acts at once in a
+    leg that starts there, so give it to a leg flown after one that went out. false: not watched.
+
+    Default: not watched."""
+
+    _shown: dict[str, str] = PrivateAttr(default_factory=dict)
+
+    @model_validator(mode="wrap")
+    @classmethod
+    def _keep_text(cls, data: Any, handler):
+        """Keep each threshold as the file wrote it ("0.5 kn"), for messages."""
+        model = handler(data)
+        if isinstance(data, dict):
+            model._shown = {
+                k: (v.strip() if isinstance(v, str) else f"{v:g}")
+                for k, v in data.items()
+                if isinstance(v, str | int | float) and not isinstance(v, bool)
+            }
+        return model
 
     def given(self) -> dict[str, float]:
-        return {k: v for k, v in self.model_dump().items() if v is not None}
+        """The conditions set: key -> SI value (true for return_to_start)."""
+        return {k: v for k, v in self.model_dump().items() if v is not None and v is not False}
+
+    def shown(self, key: str) -> str:
+        """A threshold as the file wrote it (e.g. "0.5 kn"); "" when not known."""
+        return self._shown.get(key, "")
 
 
 class LegSpec(_Strict):

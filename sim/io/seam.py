@@ -147,13 +147,20 @@ def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
 
 
 def conditions(c: schema.Conditions) -> tuple[Condition, ...]:
-    """The conditions a table gives, in the order of the schema's fields, as event objects.
+    """The conditions a table gives, in the order of the schema's fields, as event objects, each
+    carrying its threshold as the file wrote it (``shown``, for messages).
 
-    ``duration`` is left out: a leg's duration ends it at a known time (``LegSpec.duration_s``)
-    and is not a located event."""
-    return tuple(
-        CONDITIONS[key](float(value)) for key, value in c.given().items() if key != "duration"
-    )
+    A leg's ``duration`` is also given as ``LegSpec.duration_s``: the engine ends the leg at that
+    known time rather than locating an event, and uses the condition only for its message. A flag
+    condition (``return_to_start = true``) has the class's own threshold."""
+    out = []
+    for key, value in c.given().items():
+        cls = CONDITIONS[key]
+        if isinstance(value, bool):
+            out.append(cls(shown=c.shown(key)))
+        else:
+            out.append(cls(float(value), shown=c.shown(key)))
+    return tuple(out)
 
 
 def _leg(leg: schema.LegSpec) -> spec.LegSpec:
