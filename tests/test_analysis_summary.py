@@ -66,7 +66,7 @@ def test_summary_from_series_alone_agrees_with_the_accumulated_totals(tmp_path):
         assert alone["o2_total_mol"] == pytest.approx(full["o2_total_mol"], rel=1e-6)
         for key in ("distance_m", "duration_s", "energy_out_j", "h2_total_mol", "cl2_total_mol"):
             assert alone[key] == full[key], key  # the last sample is the end state
-        errors.append(abs(alone["mean_overall_efficiency"] / full["mean_overall_efficiency"] - 1))
+        errors.append(abs(alone["mean_eta_overall"] / full["mean_eta_overall"] - 1))
     assert errors[0] < 1e-2 and errors[1] < 0.4 * errors[0]
 
 

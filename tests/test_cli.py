@@ -356,7 +356,7 @@ def test_zero_field_zero_start_speed_and_zero_current_leg_run_clean(capsys, tmp_
         assert n > 5
         assert np.all(f["series/thrust_n"][()] == 0.0)
         assert np.all(f["series/speed_through_water_m_s"][()] == 0.0)
-        assert np.all(f["series/efficiency_overall"][()] == 0.0)
+        assert np.all(f["series/eta_overall"][()] == 0.0)
         assert np.all(f["series/thruster_current_a"][()] >= 0.0)
     assert "warning" in text and "zero field" in text
 

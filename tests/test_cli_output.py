@@ -526,3 +526,31 @@ def test_range_curve_defaults_keep_a_reserve_and_a_sensible_grid(capsys):
     best = waters["best range at [kn]"]
     assert grid[0] / KNOT_M_S <= best  # the best-range speed lies on the grid
     assert grid[0] / KNOT_M_S >= 0.2 * best
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["range-curve", "vessels/glasswort-drone.toml", "--points", "100000000", "--no-plots"],
+        ["thruster-curves", "vessels/glasswort-drone.toml", "--grid", "100000", "--no-plots"],
+        ["run", "scenarios/glasswort-survey.toml", "--sample", "1 ms", "--out", "never.h5"],
+    ],
+)
+def test_work_a_command_asks_for_is_bounded_before_anything_runs(argv, capsys, tmp_path):
+    """A field-trial finding: `range-curve --points 1e8`, `thruster-curves --grid 1e5` and a
+    1 ms sample ran out of memory; they are refused with exit 2 naming the figure and the limit."""
+    import os
+
+    from sim.cli import main
+
+    argv = [str(tmp_path / a) if a == "never.h5" else a for a in argv]
+    here = os.getcwd()
+    os.chdir(Path(__file__).resolve().parents[1])
+    try:
+        code = main(argv)
+    finally:
+        os.chdir(here)
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "allowed: at most" in err and "BRINEBOLT_MAX_" in err
+    assert not (tmp_path / "never.h5").exists()

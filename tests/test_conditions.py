@@ -5,13 +5,14 @@ schema and the condition classes name the same keys."""
 from __future__ import annotations
 
 import pytest
-from engine_helpers import VESSELS
+from engine_helpers import VESSELS, write_scenario
 
 from sim import api
 from sim.engine import conditions as cd
 from sim.engine.model import I_SOC, I_TB, I_V, I_XG, Control, VesselModel, initial_state
 from sim.engine.plant import build_plant
 from sim.engine.spec import Water
+from sim.io.problems import InputError
 from sim.io.schema import Conditions
 
 
@@ -36,9 +37,8 @@ def _check(cond: cd.Condition, model, y, *, holds: bool, t: float = 100.0, leg_x
 
 
 def test_every_file_condition_has_a_class_and_every_class_a_file_key():
-    # One class plus one schema field per condition: the two lists must name the same keys
-    # ('duration' ends a leg at a known time and is not a located event).
-    assert set(cd.CONDITIONS) == set(Conditions.model_fields) - {"duration"}
+    # One class plus one schema field per condition: the two lists must name the same keys.
+    assert set(cd.CONDITIONS) == set(Conditions.model_fields)
     for key, cls in cd.CONDITIONS.items():
         assert cls.key == key and cls.terminal is True
 
@@ -46,8 +46,10 @@ def test_every_file_condition_has_a_class_and_every_class_a_file_key():
 def test_direction_follows_the_wording_of_the_key():
     # '..._below' is met by falling through the threshold; '..._above', '..._after' and
     # 'distance' by rising through it (solve_ivp's event direction convention).
+    # 'return_to_start' is met by the track position falling back to zero.
     for key, cls in cd.CONDITIONS.items():
-        assert cls.direction == (-1 if key.endswith("_below") else 1), key
+        falling = key.endswith("_below") or key == "return_to_start"
+        assert cls.direction == (-1 if falling else 1), key
     assert cd.PackHeadroomExhausted.direction == -1
     assert cd.MagnetGradeLimit.direction == 1
 
@@ -87,13 +89,15 @@ def test_cell_voltage_and_pack_headroom_at_rest(model):
 
 
 def test_duct_temperature_rise_needs_current(model):
-    # Limiting case: with no current there is no Joule heating and the duct water leaves at
-    # the inlet temperature; with current it leaves warmer (energy balance, J²/σ > 0).
+    # Limiting case: with no current there is no Joule or electrode heat, only the friction of
+    # the ram-driven through-flow (about 5e-5 K at 1 m/s here); with current the water leaves
+    # far warmer (steady-flow energy balance, J²/σ > 0).
     y = _state(model)
     model.control = Control(mode="voltage", setpoint=0.0)
-    _check(cd.DuctTemperatureRiseAbove(1e-9), model, y, holds=False)
+    _check(cd.DuctTemperatureRiseAbove(1e-3), model, y, holds=False)
+    assert model.evaluate(0.0, y).duct_joule_rise_k == [0.0]
     model.control = Control(mode="voltage", setpoint=20.0)
-    _check(cd.DuctTemperatureRiseAbove(1e-9), model, y, holds=True)
+    _check(cd.DuctTemperatureRiseAbove(1e-3), model, y, holds=True)
     model.control = Control(mode="voltage", setpoint=0.0)
 
 
@@ -122,3 +126,67 @@ def test_conditions_are_frozen_values():
     assert cd.SocBelow(0.45) == cd.SocBelow(0.45) != cd.SpeedBelow(0.45)
     with pytest.raises(AttributeError):
         cd.SocBelow(0.45).threshold = 0.5
+
+
+def test_duration_counts_from_the_start_of_the_leg(model):
+    y = _state(model)
+    # the leg began at t = 40 s: at t = 100 s it has lasted 60 s
+    assert cd.Duration(50.0).holds(100.0, y, model, 0.0, 40.0)
+    assert not cd.Duration(70.0).holds(100.0, y, model, 0.0, 40.0)
+    assert cd.Duration(50.0)(100.0, y, model, 0.0, 40.0) == pytest.approx(10.0)
+
+
+def test_return_to_start_is_the_track_position_back_at_zero(model):
+    y = _state(model)  # 500 m out along the track
+    cond = cd.ReturnToStart()
+    _check(cond, model, y, holds=False, leg_x0_m=300.0)
+    y[I_XG] = -0.5  # half a metre behind the start point
+    _check(cond, model, y, holds=True, leg_x0_m=300.0)
+    y[I_XG] = 0.0
+    _check(cond, model, y, holds=True)
+    assert cond.describe() == "return to start"
+
+
+def test_messages_echo_the_files_own_text():
+    # The user's text is shown; the arithmetic keeps the SI value.
+    cond = cd.SpeedBelow(0.5 * 1852.0 / 3600.0, shown="0.5 kn")
+    assert cond.describe() == "speed below 0.5 kn"
+    assert cond == cd.SpeedBelow(0.5 * 1852.0 / 3600.0)  # the text does not change the value
+    assert cd.Distance(1852.0, shown="1 nmi").describe() == "distance 1 nmi"
+
+
+def test_the_seam_carries_the_text_of_each_threshold(tmp_path):
+    legs = """
+[[leg]]
+name = "a"
+voltage = "20 V"
+until = { speed_below = "0.5 kn", distance = "1.2 km", duration = "75 min" }
+
+[[trigger]]
+name = "t"
+when = { soc_below = 0.30, return_to_start = true }
+then = "stop"
+"""
+    ms = api.load_scenario(write_scenario(tmp_path, legs)).mission_spec
+    until = {c.key: c for c in ms.legs[0].until}
+    # 1 kn = 1852 m per hour (international nautical mile, definition)
+    assert until["speed_below"].threshold == pytest.approx(0.5 * 1852.0 / 3600.0, rel=1e-12)
+    assert until["speed_below"].describe() == "speed below 0.5 kn"
+    assert until["distance"].describe() == "distance 1.2 km"
+    assert until["duration"].describe() == "duration 75 min"
+    assert ms.legs[0].duration_s == 4500.0
+    when = {c.key: c for c in ms.triggers[0].when}
+    assert when["soc_below"].describe() == "soc below 0.3"
+    assert isinstance(when["return_to_start"], cd.ReturnToStart)
+    assert when["return_to_start"].threshold == 0.0
+
+
+def test_return_to_start_false_is_not_a_condition(tmp_path):
+    legs = """
+[[leg]]
+name = "a"
+voltage = "20 V"
+until = { return_to_start = false }
+"""
+    with pytest.raises(InputError, match="no end condition"):
+        api.load_scenario(write_scenario(tmp_path, legs))

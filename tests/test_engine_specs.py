@@ -77,7 +77,8 @@ def test_glasswort_survey_maps_to_a_mission_spec():
     assert survey.mode == "speed"
     assert survey.setpoint == pytest.approx(1.1 * 1852.0 / 3600.0, rel=REL)  # "1.1 kn"
     assert survey.duration_s == pytest.approx(75 * 60.0, rel=REL)  # "75 min"
-    assert survey.until == () and survey.hotel_w == pytest.approx(70.0, rel=REL)
+    # the duration is also a condition: its text names it in messages ("duration 75 min")
+    assert survey.until == (cd.Duration(4500.0),) and survey.hotel_w == pytest.approx(70.0, rel=REL)
     assert loiter.until == (cd.SpeedBelow(0.05),)
     (trig,) = ms.triggers
     assert (trig.then, trig.leg, trig.when) == ("goto", "return", (cd.SocBelow(0.45),))
@@ -91,7 +92,12 @@ def test_conditions_keep_the_order_of_the_schema_fields():
     from sim.io.schema import Conditions
 
     c = Conditions(speed_below="0.1 m/s", soc_below=0.3, distance="1 km", duration="1 h")
-    assert seam.conditions(c) == (cd.Distance(1000.0), cd.SpeedBelow(0.1), cd.SocBelow(0.3))
+    assert seam.conditions(c) == (
+        cd.Duration(3600.0),
+        cd.Distance(1000.0),
+        cd.SpeedBelow(0.1),
+        cd.SocBelow(0.3),
+    )
 
 
 def test_water_built_directly_matches_the_seam():

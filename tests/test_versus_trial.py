@@ -163,7 +163,7 @@ def _run(i, *, distance, soc, legs, kind="complete", cut=()):
             "energy_per_distance_j_m": 1000.0 / distance,
             "duration_s": 60.0 * len(legs),
             "end_state_of_charge": soc,
-            "mean_overall_efficiency": 0.01,
+            "mean_eta_overall": 0.01,
             "mean_speed_over_ground_m_s": 1.0,
         },
         legs=recs,

@@ -19,7 +19,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 from sim.analysis.units import METRIC, NAUTICAL, OutputUnits, output_units
-from sim.engine.summary import NOT_FINISHED, summarise
+from sim.engine.summary import NOT_FINISHED, summarise, upgrade_summary
 from sim.safety import CL2_MOLAR_MASS_G, H2_MOLAR_VOLUME_L, gas_per_hour
 
 __all__ = [
@@ -249,7 +249,7 @@ def summary_data(
     """(quantity, value, unit) rows of a run summary; distances and speeds in ``units`` (the
     text adds the other system in brackets)."""
     u = output_units(units)
-    s = summary
+    s = upgrade_summary(summary)  # an old log's summary has the old efficiency keys
     dist = float(s["distance_m"])
     dur = float(s["duration_s"])
     v = float(s["mean_speed_over_ground_m_s"])
@@ -257,7 +257,7 @@ def summary_data(
     epd = float(s.get("energy_per_distance_j_m", e_j / dist if dist > 0 else math.nan))
     h2_l = float(s["h2_total_mol"]) * H2_MOLAR_VOLUME_L
     cl2_g = float(s["cl2_total_mol"]) * CL2_MOLAR_MASS_G
-    pct = {k: 100 * float(s[k]) for k in ("mean_overall_efficiency", "best_overall_efficiency")}
+    pct = {k: 100 * float(s[k]) for k in ("mean_eta_overall", "best_eta_overall")}
     soc = 100 * float(s["end_state_of_charge"])
     duct = float(s["peak_duct_temperature_rise_k"])
     batt = float(s["peak_battery_temperature_c"])
@@ -291,15 +291,15 @@ def summary_data(
         ),
         (
             "mean overall efficiency",
-            pct["mean_overall_efficiency"],
+            pct["mean_eta_overall"],
             "%",
-            f"{pct['mean_overall_efficiency']:.3f} %",
+            f"{pct['mean_eta_overall']:.3f} %",
         ),
         (
             "best overall efficiency",
-            pct["best_overall_efficiency"],
+            pct["best_eta_overall"],
             "%",
-            f"{pct['best_overall_efficiency']:.3f} %",
+            f"{pct['best_eta_overall']:.3f} %",
         ),
         ("end state of charge", soc, "%", f"{soc:.1f} %"),
         ("peak duct temperature rise", duct, "K", f"{duct:.3f} K"),
@@ -458,7 +458,7 @@ def comparison_data(
                 u.speed(float(s["mean_speed_over_ground_m_s"])),
                 NAUTICAL.energy_per_distance(epd),
                 METRIC.energy_per_distance(epd),
-                100 * float(s["mean_overall_efficiency"]),
+                100 * float(s["mean_eta_overall"]),
                 float(s["peak_duct_temperature_rise_k"]),
                 float(s["h2_total_mol"]) * H2_MOLAR_VOLUME_L,
                 float(s["cl2_total_mol"]) * CL2_MOLAR_MASS_G,

@@ -567,7 +567,7 @@ RANK_KEYS: dict[str, tuple[str, int, str]] = {
     "duration": ("duration_s", -1, "longest duration first"),
     "endurance": ("duration_s", -1, "longest endurance (time under way) first"),
     "end-soc": ("end_state_of_charge", -1, "highest end state of charge first"),
-    "efficiency": ("mean_overall_efficiency", -1, "highest mean overall efficiency first"),
+    "efficiency": ("mean_eta_overall", -1, "highest mean overall efficiency first"),
     "speed": ("mean_speed_over_ground_m_s", -1, "highest mean speed first"),
 }
 """Ranking choices: name -> (summary key, sign (−1 larger is better), description)."""

@@ -10,6 +10,7 @@ from sim.analysis.units import output_units
 from sim.cli import options
 from sim.cli.core import EXIT_OK, OptionError, print_cautions
 from sim.cli.output import TableOutput, add_format
+from sim.io import budget
 
 DEFAULT_SOC_MIN = 0.1
 """Cut-off state of charge of ``range-curve`` when none is given: a 10 % reserve."""
@@ -76,6 +77,8 @@ def cmd_range_curve(args) -> int:
         )
     if args.points < 3:
         raise OptionError(f"option --points = {args.points}: allowed: 3 or more")
+    if why := budget.grid_problem("range-curve --points", args.points):
+        raise OptionError(why)
     current = options.speed(args.current, "--current") if args.current else 0.0
     waters = [options.water(w) for w in (args.water or DEFAULT_WATERS)]
     vessel = options.load_vessel(args.vessel, con)

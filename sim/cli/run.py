@@ -10,6 +10,7 @@ from sim.analysis.units import OutputUnits
 from sim.cli import options
 from sim.cli.core import EXIT_LIMIT, EXIT_OK, Terminated, esc, print_problems, print_table
 from sim.cli.output import TableOutput, add_format
+from sim.io import budget
 from sim.safety import (
     CAUTION_CURRENT,
     CAUTION_FIELD,
@@ -53,6 +54,7 @@ def cmd_run(args) -> int:
     volume = options.parse_positive(args.enclosed_volume, "--enclosed-volume", "volume", '"10 m^3"')
     options.check_log_out(args.out, args.force)
     loaded = api.load_scenario(args.scenario)
+    budget.check_scenario(loaded, sample)  # --sample is held to the work limits too
     print_problems(loaded.warnings + loaded.vessel.warnings, con)
 
     class Bar(RunObserver):
@@ -144,7 +146,10 @@ def safety_flags(outcome, enclosed_volume_m3: float = DEFAULT_ENCLOSED_M3) -> li
     thrusters = outcome.scenario.vessel.spec.thruster
     return run_flags(
         outcome.result.summary,
-        [t.field for t in thrusters],
+        [
+            t.field if t.field is not None else float(outcome.result.series["field_t"][:, k].max())
+            for k, t in enumerate(thrusters)
+        ],
         superconducting=any(t.magnet == "superconducting" for t in thrusters),
         enclosed_volume_m3=enclosed_volume_m3,
     )

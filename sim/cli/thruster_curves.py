@@ -10,6 +10,7 @@ from sim.analysis.units import output_units
 from sim.cli import options
 from sim.cli.core import EXIT_OK, OptionError, print_cautions
 from sim.cli.output import TableOutput, add_format
+from sim.io import budget
 
 
 def register(sub) -> None:
@@ -67,6 +68,10 @@ def cmd_thruster_curves(args) -> int:
             raise OptionError(f"option {opt}: allowed: two values, the smallest and the largest")
     if args.grid < 3:
         raise OptionError(f"option --grid = {args.grid}: allowed: 3 or more")
+    if why := budget.grid_problem(
+        "thruster-curves --grid", args.grid**2, f"{args.grid} × {args.grid}"
+    ):
+        raise OptionError(why)
     grid = default_speed_grid(plant, 24)
     speed = options.speed(args.speed, "--speed") if args.speed else 0.6 * grid[-1]
     fam = cv.thrust_flow_family(plant, k, voltages_v=volts)

@@ -1,11 +1,11 @@
 """End conditions of legs, trigger conditions and the run's stop conditions, as event objects.
 
-A condition is a small frozen object holding its threshold. Called as ``cond(t, y, model,
-leg_x0_m)`` it returns a signed distance from the threshold; the event is that value crossing
-zero in the condition's :attr:`~Condition.direction` (+1: rising through zero, −1: falling), so
-the object is what :func:`scipy.integrate.solve_ivp` takes as an event function (with
-``terminal`` and ``direction`` attributes). :meth:`Condition.holds` tells whether the condition
-already holds at a state.
+A condition is a small frozen object holding its threshold. Called as
+``cond(t, y, model, leg_x0_m, leg_t0_s)`` it returns a signed distance from the threshold; the
+event is that value crossing zero in the condition's :attr:`~Condition.direction` (+1: rising
+through zero, −1: falling), so the object is what :func:`scipy.integrate.solve_ivp` takes as an
+event function (with ``terminal`` and ``direction`` attributes). :meth:`Condition.holds` tells
+whether the condition already holds at a state.
 
 Each class names the scenario-file key it answers to (:attr:`Condition.key`, also used in
 messages such as ``"soc below 0.45"``) and the unit of its threshold. Adding a condition is one
@@ -16,7 +16,7 @@ layer); the class registers itself in :data:`CONDITIONS` by its key.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import ClassVar
 
 import numpy as np
@@ -30,9 +30,11 @@ __all__ = [
     "Condition",
     "Distance",
     "DuctTemperatureRiseAbove",
+    "Duration",
     "MagnetGradeLimit",
     "MagnetTemperatureAbove",
     "PackHeadroomExhausted",
+    "ReturnToStart",
     "SocBelow",
     "SpeedAbove",
     "SpeedBelow",
@@ -59,10 +61,15 @@ class Condition:
         The vessel model (its algebraic solution and plant).
     leg_x0_m : float
         Distance over ground at the start of the active leg [m].
+    leg_t0_s : float, optional
+        Mission time at the start of the active leg [s] (default 0).
     """
 
     threshold: float
     """In the SI unit :attr:`unit` (temperatures in °C)."""
+    shown: str = field(default="", compare=False)
+    """The threshold as the user wrote it ("0.5 kn"), for messages; "" to show the SI value.
+    Only messages use it: the arithmetic uses :attr:`threshold`."""
 
     key: ClassVar[str] = ""
     """Scenario-file key; with ``_`` as spaces it also names the condition in messages."""
@@ -78,17 +85,33 @@ class Condition:
         if register and "key" in cls.__dict__:
             CONDITIONS[cls.key] = cls
 
-    def __call__(self, t: float, y: np.ndarray, model: VesselModel, leg_x0_m: float) -> float:
+    def __call__(
+        self,
+        t: float,
+        y: np.ndarray,
+        model: VesselModel,
+        leg_x0_m: float,
+        leg_t0_s: float = 0.0,
+    ) -> float:
         raise NotImplementedError
 
-    def holds(self, t: float, y: np.ndarray, model: VesselModel, leg_x0_m: float) -> bool:
+    def holds(
+        self,
+        t: float,
+        y: np.ndarray,
+        model: VesselModel,
+        leg_x0_m: float,
+        leg_t0_s: float = 0.0,
+    ) -> bool:
         """True when the condition holds at (t, y) (its value is on or past zero)."""
-        v = self(t, y, model, leg_x0_m)
+        v = self(t, y, model, leg_x0_m, leg_t0_s)
         return v >= 0 if self.direction > 0 else v <= 0
 
     def describe(self) -> str:
-        """'distance 600 m', 'soc below 0.45'..."""
-        return f"{self.key.replace('_', ' ')} {self.threshold:g} {self.unit}".rstrip()
+        """'distance 600 m', 'speed below 0.5 kn' (the file's own text when known: see
+        :attr:`shown`), 'soc below 0.45'..."""
+        value = self.shown or f"{self.threshold:g} {self.unit}".rstrip()
+        return f"{self.key.replace('_', ' ')} {value}"
 
 
 class Distance(Condition):
@@ -96,8 +119,39 @@ class Distance(Condition):
 
     key, direction, unit = "distance", 1, "m"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_XG]) - leg_x0_m - self.threshold
+
+
+class Duration(Condition):
+    """Time since the start of the active leg reaches the threshold [s].
+
+    As a leg's end condition the engine ends the leg at this known time without locating an
+    event; in a trigger it counts from the start of whichever leg is flown (like
+    :class:`Distance`)."""
+
+    key, direction, unit = "duration", 1, "s"
+
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
+        return t - leg_t0_s - self.threshold
+
+
+@dataclass(frozen=True)
+class ReturnToStart(Condition):
+    """The vessel is back at its start point: the along-track position (the signed distance over
+    ground since the start of the run [m]) falls to the threshold (0: the start point).
+
+    The model is one-dimensional along the track, so "back at the start" is the position coming
+    back to zero, by going astern or drifting with a head current."""
+
+    threshold: float = 0.0
+    key, direction, unit = "return_to_start", -1, "m"
+
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
+        return float(y[I_XG]) - self.threshold
+
+    def describe(self) -> str:
+        return "return to start" if self.threshold == 0.0 else super().describe()
 
 
 class TotalDistanceAbove(Condition):
@@ -105,7 +159,7 @@ class TotalDistanceAbove(Condition):
 
     key, direction, unit = "total_distance_above", 1, "m"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_XG]) - self.threshold
 
 
@@ -114,7 +168,7 @@ class SpeedAbove(Condition):
 
     key, direction, unit = "speed_above", 1, "m/s"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_V]) - self.threshold
 
 
@@ -123,7 +177,7 @@ class SpeedBelow(Condition):
 
     key, direction, unit = "speed_below", -1, "m/s"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_V]) - self.threshold
 
 
@@ -132,7 +186,7 @@ class SocBelow(Condition):
 
     key, direction, unit = "soc_below", -1, ""
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_SOC]) - self.threshold
 
 
@@ -141,7 +195,7 @@ class CellVoltageBelow(Condition):
 
     key, direction, unit = "cell_voltage_below", -1, "V"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return model.evaluate(t, y).cell_voltage_v - self.threshold
 
 
@@ -151,7 +205,7 @@ class DuctTemperatureRiseAbove(Condition):
 
     key, direction, unit = "duct_temperature_rise_above", 1, "K"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return max(model.evaluate(t, y).duct_rise_k) - self.threshold
 
 
@@ -160,7 +214,7 @@ class BatteryTemperatureAbove(Condition):
 
     key, direction, unit = "battery_temperature_above", 1, "°C"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return float(y[I_TB]) - self.threshold
 
 
@@ -172,7 +226,7 @@ class MagnetTemperatureAbove(Condition):
     def _limits_c(self, model: VesselModel) -> list[float]:
         return [self.threshold] * len(model.plant.thrusters)
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         lay = model.lay
         return max(
             float(v) - lim
@@ -201,7 +255,7 @@ class PackHeadroomExhausted(Condition, register=False):
     threshold: float = 0.0
     key, direction, unit = "pack_headroom", -1, "W"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return model.evaluate(t, y).pack_headroom_w
 
 
@@ -210,5 +264,5 @@ class TimeAfter(Condition):
 
     key, direction, unit = "time_after", 1, "s"
 
-    def __call__(self, t, y, model, leg_x0_m):
+    def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
         return t - self.threshold

@@ -25,6 +25,7 @@ from sim.engine.conditions import (
     CellVoltageBelow,
     Condition,
     DuctTemperatureRiseAbove,
+    Duration,
     MagnetGradeLimit,
     MagnetTemperatureAbove,
     PackHeadroomExhausted,
@@ -47,6 +48,7 @@ from sim.engine.plant import Plant
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
+from sim.physics.constants import KNOT_M_S
 
 __all__ = [
     "SUMMARY_UNITS",  # re-exported from sim.engine.summary
@@ -91,8 +93,29 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "thruster_current_a": ("A", "current of each thruster design (all its units)", n, f),
         "thruster_voltage_v": ("V", "electrode voltage of each thruster design", n, f),
         "field_t": ("T", "mean gap field of each thruster design", n, f),
-        "duct_temperature_rise_k": ("K", "outlet minus inlet water temperature, each design", n, f),
+        "duct_temperature_rise_k": (
+            "K",
+            "bulk outlet minus inlet water temperature, each design: (Joule + friction + "
+            "electrode overpotential heat) / (mass flow × c_p)",
+            n,
+            f,
+        ),
+        "duct_joule_rise_k": ("K", "the Joule-heat part of duct_temperature_rise_k", n, f),
         "magnet_temperature_c": ("degC", "lumped magnet temperature of each design", n, f),
+        "effective_thrust_n": (
+            "N",
+            "thrust felt by the hull, Σ T·(1 − thrust deduction), all designs",
+            None,
+            f,
+        ),
+        "end_current_a": (
+            "A",
+            "current fringing beyond the channel ends, each design (0 without end effects)",
+            n,
+            f,
+        ),
+        "void_fraction_mean": ("1", "mean electrolysis-gas void fraction, each design", n, f),
+        "void_fraction_outlet": ("1", "electrolysis-gas void fraction at the outlet", n, f),
         "hull_resistance_n": ("N", "calm-water resistance incl. thruster housings", None, f),
         "thruster_power_w": ("W", "electrical power into all thrusters (V·I)", None, f),
         "pack_power_w": ("W", "power drawn from the battery pack terminals", None, f),
@@ -101,6 +124,21 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
         "cell_voltage_v": ("V", "terminal voltage per cell", None, f),
         "state_of_charge": ("1", "battery state of charge", None, f),
         "battery_temperature_c": ("degC", "lumped battery temperature", None, f),
+        "battery_heat_w": ("W", "heat generated in the cells (busbar loss excluded)", None, f),
+        "busbar_loss_w": ("W", "I²·R of the pack's busbars, fuses and contactors", None, f),
+        "pack_charge_limit_w": (
+            "W",
+            "greatest charge power the pack accepts (cell maximum voltage less the drive's "
+            "margin, charge-current rating)",
+            None,
+            f,
+        ),
+        "charge_folded": (
+            "1",
+            "1 while the drive folds back regenerated power to the pack's charge limit",
+            None,
+            "int32",
+        ),
         "joule_loss_w": ("W", "ohmic heating of the water in the ducts (J²/σ)", None, f),
         "electrode_loss_w": (
             "W",
@@ -108,19 +146,51 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
             None,
             f,
         ),
+        "electrode_heat_w": (
+            "W",
+            "overpotential × current: the part of the electrode loss released as heat at the "
+            "electrode surfaces",
+            None,
+            f,
+        ),
         "friction_loss_w": ("W", "duct friction and inlet/nozzle losses", None, f),
         "wake_loss_w": ("W", "kinetic energy left in the jet (momentum theory)", None, f),
         "drive_loss_w": ("W", "power-electronics loss", None, f),
         "hotel_power_w": ("W", "hotel and cryocooler loads", None, f),
-        "useful_power_w": ("W", "thrust × speed through water", None, f),
-        "efficiency_electrical": ("1", "flow work / thruster electrical power", None, f),
-        "efficiency_propulsive": ("1", "thrust power / flow work", None, f),
-        "efficiency_overall": ("1", "thrust power / thruster electrical power", None, f),
+        "useful_power_w": ("W", "effective thrust × speed through water", None, f),
+        "hull_interaction_power_w": (
+            "W",
+            "Σ T·V·(1 − w) − effective thrust × V: wake and thrust-deduction share",
+            None,
+            f,
+        ),
+        "eta_electrical": ("1", "flow work / thruster electrical power (V·I)", None, f),
+        "eta_hydraulic": ("1", "thrust power / flow work", None, f),
+        "eta_overall": ("1", "thrust power / thruster electrical power (V·I)", None, f),
         "h2_rate_mol_s": ("mol/s", "hydrogen evolved at the cathodes (Faraday)", None, f),
         "cl2_rate_mol_s": ("mol/s", "chlorine evolved at the anodes (Faraday)", None, f),
         "h2_total_mol": ("mol", "hydrogen evolved since the start", None, f),
         "cl2_total_mol": ("mol", "chlorine evolved since the start", None, f),
         "energy_out_j": ("J", "energy drawn from the pack terminals since the start", None, f),
+        "drive_saturated": (
+            "1",
+            "1 while the drive clamps the command at its current or voltage limit, else 0",
+            None,
+            "int32",
+        ),
+        "power_folded": (
+            "1",
+            "1 while the drive folds back to the pack's power limit, else 0",
+            None,
+            "int32",
+        ),
+        "speed_short_m_s": (
+            "m/s",
+            "held speed minus speed through water while the speed hold is at a drive or pack "
+            "limit (0 otherwise)",
+            None,
+            f,
+        ),
     }
 
 
@@ -131,12 +201,15 @@ def _ratio(a: float, b: float) -> float:
 def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> dict:
     s = model.evaluate(t, y)
     p, lay = model.plant, model.lay
-    useful = s.total_thrust_n * float(y[I_V])
+    speed = float(y[I_V])
+    useful = s.total_thrust_n * speed
+    extra = model.duct_extras(s, speed)
+    v_rc = float(y[I_RC1]) + float(y[I_RC2])
     return {
         "time_s": t,
         "leg_index": leg_index,
-        "speed_through_water_m_s": float(y[I_V]),
-        "speed_over_ground_m_s": float(y[I_V]) + p.water_current_m_s,
+        "speed_through_water_m_s": speed,
+        "speed_over_ground_m_s": speed + p.water_current_m_s,
         "distance_m": float(y[I_XG]),
         "distance_through_water_m": float(y[I_XW]),
         "thrust_n": list(s.thrust_n),
@@ -144,7 +217,12 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "thruster_voltage_v": list(s.voltage_v),
         "field_t": list(s.field_t),
         "duct_temperature_rise_k": list(s.duct_rise_k),
+        "duct_joule_rise_k": list(s.duct_joule_rise_k),
         "magnet_temperature_c": [float(v) for v in y[lay.i_mag : lay.i_mag + lay.n_thr]],
+        "effective_thrust_n": s.total_thrust_n,
+        "end_current_a": extra["end_current_a"],
+        "void_fraction_mean": extra["void_mean"],
+        "void_fraction_outlet": extra["void_outlet"],
         "hull_resistance_n": s.resistance_n,
         "thruster_power_w": s.thr_power_w,
         "pack_power_w": s.pack_power_w,
@@ -153,22 +231,112 @@ def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> d
         "cell_voltage_v": s.cell_voltage_v,
         "state_of_charge": float(y[I_SOC]),
         "battery_temperature_c": float(y[I_TB]),
+        "battery_heat_w": s.pack_heat_w,
+        "busbar_loss_w": s.busbar_w,
+        "pack_charge_limit_w": model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB])),
+        "charge_folded": int(s.charge_folded),
         "joule_loss_w": s.joule_w,
         "electrode_loss_w": s.electrode_w,
+        "electrode_heat_w": s.electrode_heat_w,
         "friction_loss_w": s.friction_w,
         "wake_loss_w": s.wake_w,
         "drive_loss_w": s.drive_loss_w,
         "hotel_power_w": s.hotel_w,
         "useful_power_w": useful,
-        "efficiency_electrical": _ratio(s.flow_work_w, s.thr_power_w),
-        "efficiency_propulsive": _ratio(useful, s.flow_work_w),
-        "efficiency_overall": _ratio(useful, s.thr_power_w),
+        "hull_interaction_power_w": s.interaction_w,
+        "eta_electrical": _ratio(s.flow_work_w, s.thr_power_w),
+        "eta_hydraulic": _ratio(useful, s.flow_work_w),
+        "eta_overall": _ratio(useful, s.thr_power_w),
         "h2_rate_mol_s": s.h2,
         "cl2_rate_mol_s": s.cl2,
         "h2_total_mol": float(y[lay.acc["h2_mol"]]),
         "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
         "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
+        "drive_saturated": int(bool(s.saturated) and not s.folded),
+        "power_folded": int(bool(s.folded)),
+        "speed_short_m_s": _speed_short(model, float(y[I_V]), s),
     }
+
+
+CHARGE_FOLD_START = "charge fold-back"
+"""Event kind: the drive starts folding back regenerated power (pack charge limit)."""
+CHARGE_FOLD_END = "charge fold-back end"
+"""Event kind: the drive stops folding back regenerated power."""
+HULL_RANGE = "hull model range"
+"""Event kind (once per run): the speed passed the hull model's data range."""
+
+
+def sample_events(plant: Plant, prev: dict | None, row: dict, seen: set) -> list[tuple[str, str]]:
+    """Events read off consecutive samples: the charge fold-back starting and ending, and (once
+    per run, remembered in ``seen``) the speed passing the hull model's Froude-number range.
+    Returns (kind, message) pairs."""
+    out = []
+    was = bool(prev["charge_folded"]) if prev is not None else False
+    now = bool(row["charge_folded"])
+    if now and not was:
+        out.append(
+            (
+                CHARGE_FOLD_START,
+                "the drive folds back regenerated power: the cells would pass their maximum "
+                f"voltage or charge-current rating (pack accepts {row['pack_charge_limit_w']:.4g}"
+                " W)",
+            )
+        )
+    elif was and not now:
+        out.append((CHARGE_FOLD_END, "regenerated power no longer folded back"))
+    v = abs(row["speed_through_water_m_s"])
+    if HULL_RANGE not in seen and v > plant.hull_max_speed_m_s:
+        seen.add(HULL_RANGE)
+        out.append(
+            (
+                HULL_RANGE,
+                f"speed {v:.3f} m/s is past Froude number {plant.hull_max_froude:g} "
+                f"({plant.hull_max_speed_m_s:.3f} m/s), the end of the hull model's data: "
+                "resistance is extrapolated",
+            )
+        )
+    return out
+
+
+def _speed_short(model: VesselModel, speed: float, s) -> float:
+    """How far a speed hold falls short of its target [m/s] while the drive cannot give more
+    (saturated or folded back); 0 when the leg holds no speed or the drive has margin left."""
+    c = model.control
+    if c.mode != "speed" or not s.saturated:
+        return 0.0
+    return max(0.0, c.target - speed)
+
+
+SPEED_SHORT_TOLERANCE = 0.02
+"""A speed hold counts as not held when its shortfall at a drive or pack limit exceeds this
+fraction of the target (and at least :data:`SPEED_SHORT_MIN_M_S`) (project choice)."""
+SPEED_SHORT_MIN_M_S = 0.01
+"""Smallest shortfall counted as a speed not held [m/s] (project choice)."""
+LIMIT_DWELL_S = 30.0
+"""A saturation, fold-back or speed shortfall (and its end) is reported as an event once it has
+lasted this long on the logged samples [s], so a drive hovering at a limit does not flood the
+event list (project choice)."""
+
+
+class _Episode:
+    """A flag on the sample rows, debounced: it changes state (and reports it) only once the new
+    state has lasted :data:`LIMIT_DWELL_S`."""
+
+    def __init__(self) -> None:
+        self.on = False
+        self.since: float | None = None
+
+    def update(self, t: float, raw: bool) -> bool:
+        """Feed one sample; True when the reported state changes at this sample."""
+        if raw == self.on:
+            self.since = None
+            return False
+        if self.since is None:
+            self.since = t
+        if t - self.since >= LIMIT_DWELL_S:
+            self.on, self.since = raw, None
+            return True
+        return False
 
 
 # ------------------------------------------------------------------ observers and results
@@ -257,6 +425,9 @@ class MissionRunner:
         self._legs_out: list[dict] = []
         self._rows: list[dict] = []
         self._pending_rows: list[dict] = []
+        self._seen: set = set()  # once-per-run sample events already emitted
+        self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
+        self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
         lay = self.model.lay
         self.atol = np.full(lay.size, 1e-6)
@@ -272,10 +443,10 @@ class MissionRunner:
     # ------------------------------------------------------------------ conditions
     def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
         """Signed distance of a condition from its threshold."""
-        return c.cond(t, y, self.model, self.m.leg_x0)
+        return c.cond(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _holds(self, c: _Armed, t: float, y: np.ndarray) -> bool:
-        return c.cond.holds(t, y, self.model, self.m.leg_x0)
+        return c.cond.holds(t, y, self.model, self.m.leg_x0, self.m.leg_t0)
 
     def _stop_conditions(self) -> list[_Armed]:
         lim = self.mission.limits
@@ -325,7 +496,12 @@ class MissionRunner:
     def _active_conditions(self) -> list[_Armed]:
         m = self.m
         leg = self.legs[m.leg_index]
-        conds = [_Armed("leg", c, m.leg_index, leg.name) for c in leg.until]
+        # a leg's duration ends it at a known time (the segment horizon), not a located event
+        conds = [
+            _Armed("leg", c, m.leg_index, leg.name)
+            for c in leg.until
+            if not isinstance(c, Duration)
+        ]
         for i, trig in enumerate(self.triggers):
             if i not in m.fired:
                 conds += [_Armed("trigger", c, i, trig.name) for c in trig.when]
@@ -346,12 +522,20 @@ class MissionRunner:
             hotel_w=leg.hotel_w if leg.hotel_w is not None else m.base_hotel_w,
         )
         y = y.copy()
-        if c.mode == "speed":
+        note = ""
+        if c.mode == "speed" and c.target == 0.0:
+            # A held speed of zero is thrust off: zero electrode current (the command sits in
+            # the electrodes' dead band) and the vessel coasts to rest. A PI loop about zero
+            # speed would have to cross the dead band at every sign change of the error, and
+            # its linearised gain there is zero: it chattered between ±max voltage.
+            c = Control(mode="current", setpoint=0.0, derate=m.derate, hotel_w=c.hotel_w)
+            note = " (thrust off: coasting to rest)"
+        elif c.mode == "speed":
             self._tune_speed_hold(c, leg, y)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
         self.model.invalidate()
-        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}")
+        self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}{note}")
         return y
 
     def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
@@ -383,6 +567,15 @@ class MissionRunner:
         probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
         mid = probe.evaluate(0.0, yy)
         gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
+        if gain <= 1e-9 and ff > 0.0:
+            # The thrust does not respond to the command at the feed-forward point: the drive is
+            # at its current limit there (a speed it cannot reach) or the command sits in the
+            # electrodes' dead band. The local slope (zero) would give an unbounded gain and a
+            # loop that chatters once the target becomes reachable (e.g. after a derate); use
+            # the mean slope of thrust against command from zero to the feed-forward instead.
+            probe.control = Control(mode="voltage", setpoint=0.0, hotel_w=c.hotel_w)
+            zero = probe.evaluate(0.0, yy)
+            gain = (mid.total_thrust_n - zero.total_thrust_n) / ff
         mass = p.total_mass_kg
         damping = max(damping, 1e-6)
         gain = max(gain, 1e-9)
@@ -436,8 +629,60 @@ class MissionRunner:
                     self.legs[self.m.leg_index].name,
                     self._state_dict(y),
                 )
+        for kind, message in sample_events(
+            self.plant, self._rows[-1] if self._rows else None, row, self._seen
+        ):
+            self._emit(t, kind, self.m.leg_index, message)
         self._rows.append(row)
         self._pending_rows.append(row)
+        self._watch_limits(row)
+
+    def _watch_limits(self, row: dict) -> None:
+        """Events when the drive starts or stops saturating, folding back, or falling short of a
+        held speed (debounced on the samples: :class:`_Episode`)."""
+        t, leg = row["time_s"], row["leg_index"]
+        ep = self._episodes
+        if leg != self._episode_leg:  # a new leg asks for a new speed: start afresh
+            self._episode_leg = leg
+            ep["speed"] = _Episode()
+        if ep["drive"].update(t, bool(row["drive_saturated"])):
+            if ep["drive"].on:
+                self._emit(t, "saturation", leg, f"drive at its {self._which_limit(row)}")
+            else:
+                self._emit(t, "saturation", leg, "drive back within its current and voltage limits")
+        if ep["fold"].update(t, bool(row["power_folded"])):
+            if ep["fold"].on:
+                self._emit(
+                    t,
+                    "saturation",
+                    leg,
+                    "power folded back: the pack limits the drive to "
+                    f"{row['pack_power_w'] / 1000:.3g} kW from the pack",
+                )
+            else:
+                self._emit(t, "saturation", leg, "power fold-back ended")
+        c = self.model.control
+        short = row["speed_short_m_s"]
+        target = c.target if c.mode == "speed" else 0.0
+        tol = max(SPEED_SHORT_TOLERANCE * target, SPEED_SHORT_MIN_M_S)
+        if ep["speed"].update(t, short > tol):
+            v = row["speed_through_water_m_s"]
+            held = "not held" if ep["speed"].on else "held again"
+            self._emit(
+                t,
+                "saturation",
+                leg,
+                f"speed {held}: {v / KNOT_M_S:.2f} kn of {target / KNOT_M_S:.2f} kn asked "
+                f"({v:.3g} of {target:.3g} m/s)",
+            )
+
+    def _which_limit(self, row: dict) -> str:
+        p = self.plant
+        imax = p.drive_max_current_a
+        for i, u in zip(row["thruster_current_a"], p.thrusters, strict=True):
+            if abs(i) / u.units >= imax * (1.0 - 1e-6):
+                return f"current limit ({imax:g} A per unit)"
+        return f"voltage limit ({p.drive_max_voltage_v:g} V)"
 
     def _state_dict(self, y: np.ndarray) -> dict:
         lay = self.model.lay
@@ -522,15 +767,30 @@ class MissionRunner:
                 if len(te) and te[0] < best:
                     best, fired = float(te[0]), c
                     t_end, y_end = float(te[0]), ye[0].copy()
-        # samples on the global grid inside (t0, t_end), then the segment end itself
-        k0 = math.floor(t0 / self.sample_s) + 1
-        k1 = math.ceil(t_end / self.sample_s) - 1
-        if k1 >= k0:
-            ts = np.arange(k0, k1 + 1) * self.sample_s
-            ys = sol.sol(ts)
-            for j, ts_j in enumerate(ts):
-                self._record(float(ts_j), ys[:, j])
+        self._record_grid(t0, t_end, y_end, sol)
         return t_end, y_end, fired, sol
+
+    def _record_grid(self, t0: float, t_end: float, y_end: np.ndarray, sol) -> None:
+        """Record every point k·sample_s of the global grid not yet written, up to and including
+        the segment end: each grid point is written exactly once, whatever ends the segments
+        (leg ends, events, scheduled changes, chunk boundaries). A grid point at the segment end
+        itself takes the segment's end state (before any event there acts)."""
+        k0 = self._next_k
+        k1 = math.floor(t_end / self.sample_s)
+        if k1 < k0:
+            return
+        ts = np.arange(k0, k1 + 1) * self.sample_s
+        ts = ts[ts <= t_end]  # floor() of a rounded quotient may overshoot by one point
+        if not ts.size:
+            return
+        self._next_k = k0 + ts.size
+        inside = ts[(ts >= t0) & (ts < t_end)]
+        if inside.size:
+            ys = sol.sol(inside)
+            for j, ts_j in enumerate(inside):
+                self._record(float(ts_j), ys[:, j])
+        if ts[-1] == t_end:
+            self._record(t_end, y_end)
 
     # ------------------------------------------------------------------ the mission process
     def _process(self, env: simpy.Environment, y: np.ndarray):
@@ -538,6 +798,7 @@ class MissionRunner:
         t = 0.0
         y = self._start_leg(0, t, y)
         self._record(t, y)
+        self._next_k = 1  # the next grid point to write (k·sample_s)
         wall0 = last_flush = _time.perf_counter()
         chunk = self.time_limit / 50.0  # progress and flushes on long legs
         while True:
@@ -566,10 +827,10 @@ class MissionRunner:
                         return
                     if t >= leg_end:
                         self._record(t, y)
-                        y = self._next_leg(t, y, f"duration {leg.duration_s:g} s")
+                        y = self._next_leg(t, y, _duration_text(leg))
                         if m.ending:
                             return
-                    continue  # a chunk boundary or a scheduled event: nothing to record
+                    continue  # a chunk boundary or a scheduled event: its grid point is written
             self._record(t, y)
             y = self._handle(fired, t, y)
             if m.ending:
@@ -707,6 +968,14 @@ class MissionRunner:
             wall_time_s=wall,
             rhs_calls=self.model.n_rhs,
         )
+
+
+def _duration_text(leg: LegSpec) -> str:
+    """'duration 75 min': the leg's duration as its file wrote it, when the spec carries it."""
+    for c in leg.until:
+        if isinstance(c, Duration) and c.threshold == leg.duration_s:
+            return c.describe()
+    return f"duration {leg.duration_s:g} s"
 
 
 def _describe(leg: LegSpec, derate: float) -> str:

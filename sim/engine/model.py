@@ -29,7 +29,9 @@ from scipy.optimize import brentq
 
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
-from sim.physics.thruster import prepare_scalar, scalar_point
+from sim.physics.duct_heat import duct_heat
+from sim.physics.gas import mean_void_fraction, outlet_void_fraction
+from sim.physics.thruster import U_FLOOR_M_S, prepare_scalar, scalar_point
 
 I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)
 N_FIXED = 7
@@ -49,6 +51,8 @@ ACC_NAMES = (
     "h2_mol",
     "cl2_mol",
     "o2_mol",
+    "energy_busbar_j",  # ∫ I²·R_extra dt (busbar heat, outside the cells)
+    "energy_hull_interaction_j",  # ∫ (Σ T·V_A − T_eff·V) dt (wake and thrust deduction)
 )
 
 
@@ -98,14 +102,18 @@ class Snapshot:
     """The algebraic solution at one instant (plain floats; per-thruster lists)."""
 
     __slots__ = (
+        "busbar_w",
         "cell_voltage_v",
+        "charge_folded",
         "cl2",
         "command_v",
         "current_a",
         "drc1",
         "drc2",
         "drive_loss_w",
+        "duct_joule_rise_k",
         "duct_rise_k",
+        "electrode_heat_w",
         "electrode_w",
         "feasible",
         "field_t",
@@ -114,9 +122,11 @@ class Snapshot:
         "friction_w",
         "h2",
         "hotel_w",
+        "interaction_w",
         "joule_w",
         "o2",
         "ocv_v",
+        "ops",
         "pack_current_a",
         "pack_headroom_w",
         "pack_heat_w",
@@ -170,16 +180,33 @@ class VesselModel:
         return u.b_ref_tesla * (1.0 + u.alpha_br_per_k * (magnet_c - u.t_ref_c))
 
     def _point(self, k: int, speed: float, b: float, volts=None, amps=None):
-        """Operating point of one unit of thruster design k (plain floats)."""
+        """Operating point of one unit of thruster design k (plain floats) at the vessel's
+        speed through water: the intakes see V·(1 − w); with the channels in series the unit
+        voltage is N × the channel voltage and the unit current the channel current (the
+        physics solves the parallel equivalent, which has the same power, thrust, losses and
+        gas)."""
         kc = self._consts[k]
         kc.b = b
-        return scalar_point(
+        u = self.plant.thrusters[k]
+        if u.wake_fraction != 0.0:
+            speed = speed * (1.0 - u.wake_fraction)
+        n = u.series_factor
+        if n == 1:
+            return scalar_point(
+                kc,
+                speed,
+                voltage_v=volts,
+                current_a=amps,
+                chlorine_fraction=u.duct.chlorine_fraction,
+            )
+        op = scalar_point(
             kc,
             speed,
-            voltage_v=volts,
-            current_a=amps,
-            chlorine_fraction=self.plant.thrusters[k].duct.chlorine_fraction,
+            voltage_v=None if volts is None else volts / n,
+            current_a=None if amps is None else amps * n,
+            chlorine_fraction=u.duct.chlorine_fraction,
         )
+        return op._replace(voltage_v=op.voltage_v * n, current_a=op.current_a / n)
 
     def _unit_op(self, k: int, speed: float, volts: float, b: float):
         """Operating point of one unit of thruster k at a commanded voltage, with the unit's
@@ -269,6 +296,70 @@ class VesselModel:
             undervoltage_margin_v=self.plant.undervoltage_margin_v,
         )
 
+    def pack_charge_limit_w(self, soc: float, v_rc: float, temp_c: float) -> float:
+        """Greatest charge power the pack terminals may absorb [W]: the cells stay at or below
+        their maximum voltage less the drive's over-voltage margin, and the charge current
+        within its rating. Delegates to :func:`sim.physics.battery.pack_charge_limit_w`."""
+        return bat.pack_charge_limit_w(
+            self.plant.pack,
+            soc,
+            v_rc,
+            temp_c,
+            overvoltage_margin_v=self.plant.overvoltage_margin_v,
+        )
+
+    def _fold_regen(self, ops, target_w: float, speed: float, fields: list[float]):
+        """Operating points with every unit's regenerated current scaled back by a common
+        factor until all thrusters together feed back no more than ``-target_w`` [W]
+        (target_w ≤ 0). The electrical power of a generating unit runs from its value at the
+        full current to 0 at zero current and crosses any level in between once (beyond the
+        power maximum it first grows, then falls), so the bracketed root is unique."""
+        cur = [float(op.current_a) for op in ops]
+
+        def at(lam: float):
+            return [
+                self._point(k, speed, fields[k], amps=(1.0 - lam) * cur[k]) for k in range(len(cur))
+            ]
+
+        def excess(lam: float) -> float:
+            return self._power_of(at(lam)) - target_w
+
+        if excess(0.0) >= 0.0:
+            return ops
+        lam = brentq(excess, 0.0, 1.0, xtol=1e-12, rtol=1e-12, maxiter=200)
+        return at(lam)
+
+    def duct_extras(self, s: Snapshot, speed: float) -> dict[str, list[float]]:
+        """Per design: the fringing current at the channel ends [A] (all units), and the mean
+        and outlet void fractions of the electrolysis gas [-], from a snapshot's operating
+        points (the same closed forms as :func:`sim.physics.thruster.operating_point`).
+
+        Notes
+        -----
+        With V_w = V − V_g − sign(I)·V_d across the water of one channel and the parallel
+        equivalent current I = N·h·σ·(L·(E − uB) + Λ·V_w), E = V_w/gap, the end current is
+        I_end = I·Λ·V_w/(L·(E − uB) + Λ·V_w); the gas of the core current I − I_end gives
+        a = v_C·|I_core|/(N·A·max(|u|, u_floor)) (`sim.physics.gas`).
+        """
+        end, vmean, vout = [], [], []
+        for k, (op, u) in enumerate(zip(s.ops, self.plant.thrusters, strict=True)):
+            kc = self._consts[k]
+            n = u.series_factor
+            i_par = float(op.current_a) * n
+            v_par = float(op.voltage_v) / n
+            i_end = 0.0
+            if i_par != 0.0 and kc.lam != 0.0:
+                vw = v_par - u.duct.galvanic_offset_v - math.copysign(kc.vd, i_par)
+                ub = float(op.duct_velocity_m_s) * s.field_t[k]
+                den = kc.length * (vw / kc.gap - ub) + kc.lam * vw
+                i_end = i_par * kc.lam * vw / den if den != 0.0 else 0.0
+            ue = max(abs(float(op.duct_velocity_m_s)), U_FLOOR_M_S)
+            a = kc.vpc * abs(i_par - i_end) / (kc.n * kc.area * ue)
+            end.append(i_end * u.units / n)
+            vmean.append(float(mean_void_fraction(a, kc.slip)))
+            vout.append(float(outlet_void_fraction(a, kc.slip)))
+        return {"end_current_a": end, "void_mean": vmean, "void_outlet": vout}
+
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
         speed = float(y[I_V])
@@ -302,20 +393,43 @@ class VesselModel:
                 v_fold, _ = self._voltage_for_power(allowed, speed, fields, sign)
                 ops, _ = self._ops_for("voltage", v_fold, speed, fields)
                 saturated = folded = True
+        # regeneration: the drive folds back what it feeds the pack when the cells would pass
+        # their maximum voltage or their charge-current rating
+        charge_folded = False
+        if thr < 0 and thr * eta + hotel < 0:
+            p_chg = self.pack_charge_limit_w(soc, v_rc, temp)
+            if -(thr * eta + hotel) > p_chg:
+                ops = self._fold_regen(ops, -(p_chg + hotel) / eta, speed, fields)
+                saturated = charge_folded = True
 
         s = Snapshot()
         s.command_v = ops[0].voltage_v if ops else 0.0
         s.saturated = saturated
         s.field_t = fields
+        s.ops = ops
         # per-design values and sums over all units, in one pass over the thruster designs
-        thrust, current, volts, rise = [], [], [], []
+        thrust, current, volts, rise, jrise = [], [], [], [], []
         joule = electrode = friction = wake = flow = h2 = cl2 = o2 = thr = 0.0
+        eff = gross_power = el_heat = 0.0
+        w = p.water
         for op, u in zip(ops, p.thrusters, strict=True):
             m = u.units
             thrust.append(op.thrust_n * m)
             current.append(op.current_a * m)
             volts.append(op.voltage_v)
-            rise.append(op.outlet_temperature_rise_k)
+            heat = duct_heat(
+                max(op.joule_loss_w, 0.0),
+                max(op.friction_loss_w, 0.0),
+                u.overpotential_v,
+                op.current_a * u.series_factor,
+                op.duct_velocity_m_s,
+                u.duct.total_area_m2,
+                w.rho_kg_m3,
+                w.cp_j_kg_k,
+            )
+            rise.append(heat.rise_k)
+            jrise.append(op.outlet_temperature_rise_k)
+            el_heat += heat.electrode_w * m
             joule += op.joule_loss_w * m
             electrode += op.electrode_loss_w * m
             friction += op.friction_loss_w * m
@@ -325,11 +439,19 @@ class VesselModel:
             cl2 += op.cl2_mol_s * m
             o2 += op.o2_mol_s * m
             thr += op.electrical_power_w * m
+            if u.thrust_deduction != 0.0:
+                eff += op.thrust_n * m * (1.0 - u.thrust_deduction)
+            else:
+                eff += op.thrust_n * m
+            gross_power += op.thrust_n * m * speed * (1.0 - u.wake_fraction)
         s.thrust_n, s.current_a, s.voltage_v, s.duct_rise_k = thrust, current, volts, rise
+        s.duct_joule_rise_k, s.electrode_heat_w = jrise, el_heat
         s.joule_w, s.electrode_w, s.friction_w, s.wake_w = joule, electrode, friction, wake
         s.flow_work_w, s.h2, s.cl2, s.o2, s.thr_power_w = flow, h2, cl2, o2, thr
-        s.total_thrust_n = sum(s.thrust_n)
+        s.total_thrust_n = eff
+        s.interaction_w = gross_power - eff * speed
         s.folded = folded
+        s.charge_folded = charge_folded
         bus = s.thr_power_w / eta if s.thr_power_w >= 0 else s.thr_power_w * eta
         s.drive_loss_w = bus - s.thr_power_w
         s.hotel_w = hotel
@@ -343,7 +465,11 @@ class VesselModel:
         s.cell_voltage_v = float(op.cell_v)
         s.ocv_v = float(bat.ocv_v(pk, soc))
         rc = (float(y[I_RC1]), float(y[I_RC2]))[: pk.n_rc]
-        s.pack_heat_w = float(bat.heat_generation_w(pk, s.pack_current_a, soc, temp, rc))
+        # the cells' heat only: the busbar loss I²·R_extra warms the busbars, not the cells
+        s.pack_heat_w = float(
+            bat.heat_generation_w(pk, s.pack_current_a, soc, temp, rc, include_busbars=False)
+        )
+        s.busbar_w = float(bat.busbar_loss_w(pk, s.pack_current_a))
         d = bat.drc_dt(pk, soc, temp, s.pack_current_a, rc)
         s.drc1 = float(d[0])
         s.drc2 = float(d[1]) if pk.n_rc > 1 else 0.0
@@ -379,6 +505,8 @@ class VesselModel:
             winding = s.saturated and (
                 (err > 0 and s.command_v > 0) or (err < 0 and s.command_v < 0)
             )
+            # regenerated power folded back: the drive cannot brake harder, so do not wind up
+            winding = winding or (s.charge_folded and err < 0)
             dy[lay.i_pi] = 0.0 if winding else c.ki_v_per_m * err
         a = lay.acc
         dy[a["energy_pack_terminal_j"]] = s.pack_voltage_v * s.pack_current_a
@@ -395,4 +523,6 @@ class VesselModel:
         dy[a["h2_mol"]] = s.h2
         dy[a["cl2_mol"]] = s.cl2
         dy[a["o2_mol"]] = s.o2
+        dy[a["energy_busbar_j"]] = s.busbar_w
+        dy[a["energy_hull_interaction_j"]] = s.interaction_w
         return dy

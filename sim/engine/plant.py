@@ -19,7 +19,7 @@ from sim.engine.spec import (
     Water,
 )
 from sim.physics import battery as bat
-from sim.physics import electrochem, hull, magnets
+from sim.physics import electrochem, hull, magnet_gap, magnets
 from sim.physics.seawater import WaterState, water_state
 from sim.physics.thruster import DuctThruster
 
@@ -47,6 +47,20 @@ class ThrusterUnit:
     """Maximum working temperature of the magnet [°C] (inf when not limited)."""
     magnet_heat_capacity_j_k: float
     magnet_conductance_w_k: float
+    channel_wiring: str = "parallel"
+    """'parallel' or 'series': how the channels of one unit are connected."""
+    wake_fraction: float = 0.0
+    """Taylor wake fraction w [-]: the intakes see V·(1 − w)."""
+    thrust_deduction: float = 0.0
+    """Thrust deduction fraction t [-]: the hull feels T·(1 − t)."""
+    overpotential_v: float = 0.0
+    """Overpotential part of the electrode drop [V] (heat at the electrode surfaces)."""
+
+    @property
+    def series_factor(self) -> int:
+        """Unit voltage / channel voltage = channel current / unit current [-]: the number of
+        channels in series, 1 in parallel."""
+        return self.duct.n_channels if self.channel_wiring == "series" else 1
 
 
 @dataclass(frozen=True)
@@ -73,6 +87,13 @@ class Plant:
     [V]."""
     hotel_w: float
     cryocooler_w: float
+    overvoltage_margin_v: float = 0.05
+    """The drive folds back regenerated power to keep every cell this far below its maximum
+    voltage [V]."""
+    hull_max_speed_m_s: float = math.inf
+    """Speed at the upper Froude number of the hull model's data [m/s] (inf: no such bound)."""
+    hull_max_froude: float = math.inf
+    """That Froude number [-]."""
 
     @property
     def total_mass_kg(self) -> float:
@@ -155,12 +176,13 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         chlorine_fraction=spec.chlorine_fraction,
     )
     drop = electrochem.electrode_drop_v(pair)
+    b_ref = spec.field_t if spec.magnet_blocks is None else block_field_t(spec)
     duct = DuctThruster(
         gap_m=spec.gap_m,
         height_m=spec.pole_height_m,
         length_m=spec.active_length_m,
         n_channels=spec.channels,
-        b_tesla=spec.field_t,
+        b_tesla=b_ref,
         roughness_m=spec.wall_roughness_m,
         k_inlet=spec.inlet_loss,
         k_nozzle=spec.nozzle_loss,
@@ -169,12 +191,16 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         electrode_drop_v=drop,
         chlorine_fraction=spec.chlorine_fraction,
         galvanic_offset_v=pair.galvanic_offset_v,
+        gas_model=spec.gas_model,
+        gas_slip_ratio=spec.gas_slip_ratio,
+        end_effects=spec.end_effects,
     )
     alpha, tmax = 0.0, math.inf
     if spec.magnet == "permanent":
         alpha = magnets.ALPHA_BR_NDFEB_PER_K
-        if spec.magnet_grade:
-            grade = magnets.NDFEB_GRADES[spec.magnet_grade.upper()]
+        grade_name = spec.magnet_grade or (spec.magnet_blocks and spec.magnet_blocks.grade)
+        if grade_name:
+            grade = magnets.NDFEB_GRADES[grade_name.upper()]
             alpha = grade.alpha_br_per_k
             tmax = grade.max_working_temp_c
     return ThrusterUnit(
@@ -182,12 +208,35 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         duct=duct,
         units=spec.units,
         magnet_kind=spec.magnet,
-        b_ref_tesla=spec.field_t,
+        b_ref_tesla=b_ref,
         alpha_br_per_k=alpha,
-        t_ref_c=spec.field_reference_temperature_c,
+        t_ref_c=(
+            spec.field_reference_temperature_c if spec.magnet_blocks is None else magnets.T_REF_C
+        ),
         magnet_max_c=tmax,
         magnet_heat_capacity_j_k=spec.magnet_heat_capacity_j_k,
         magnet_conductance_w_k=spec.magnet_conductance_w_k,
+        channel_wiring=spec.channel_wiring,
+        wake_fraction=spec.wake_fraction,
+        thrust_deduction=spec.thrust_deduction,
+        overpotential_v=spec.overpotential_v,
+    )
+
+
+def block_field_t(spec: ThrusterSpec) -> float:
+    """Volume-mean gap field of a thruster's magnet blocks over one channel at 20 °C [T]
+    (:func:`sim.physics.magnet_gap.facing_blocks_mean_field_t`, the grade's nominal
+    remanence)."""
+    mb = spec.magnet_blocks
+    grade = magnets.NDFEB_GRADES[mb.grade.upper()]
+    return magnet_gap.facing_blocks_mean_field_t(
+        grade.br_tesla,
+        mb.width_m,
+        mb.length_m,
+        mb.thickness_m,
+        spec.pole_height_m,
+        spec.gap_m,
+        spec.active_length_m,
     )
 
 
@@ -211,6 +260,8 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
     """Build the plant of a vessel in a body of water."""
     state = water_properties(water)
     model = hull_model(vessel.hull)
+    vmax_hull = float(getattr(model, "max_speed_m_s", math.inf))
+    fn_max = float(getattr(model, "max_froude_number", math.inf))
     apps = housing_appendages(vessel)
     if apps:
         model = hull.with_appendages(model, apps)
@@ -238,4 +289,7 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         undervoltage_margin_v=d.undervoltage_margin_v,
         hotel_w=vessel.hotel_w,
         cryocooler_w=vessel.cryocooler_w,
+        overvoltage_margin_v=d.overvoltage_margin_v,
+        hull_max_speed_m_s=vmax_hull,
+        hull_max_froude=fn_max,
     )

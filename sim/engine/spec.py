@@ -25,6 +25,7 @@ __all__ = [
     "HullSpec",
     "LegSpec",
     "LimitsSpec",
+    "MagnetBlocksSpec",
     "MissionSpec",
     "ScheduleSpec",
     "SolverSpec",
@@ -111,6 +112,21 @@ HullSpec = SubmergedHullSpec | DisplacementHullSpec | TableHullSpec
 
 
 @dataclass(frozen=True)
+class MagnetBlocksSpec:
+    """Two facing permanent-magnet blocks per channel, one on each pole wall, centred on it;
+    their volume-mean field over the channel replaces a given field."""
+
+    width_m: float
+    """Block size across the channel (along the electrode gap) [m]."""
+    length_m: float
+    """Block size along the flow [m]."""
+    thickness_m: float
+    """Block size along the magnetisation (the field) [m]."""
+    grade: str
+    """NdFeB grade, e.g. 'N42SH' (any case); its nominal remanence at 20 °C is used."""
+
+
+@dataclass(frozen=True)
 class ThrusterSpec:
     """One thruster design and how many identical units of it are fitted."""
 
@@ -121,8 +137,8 @@ class ThrusterSpec:
     """Distance between the magnet poles [m]."""
     active_length_m: float
     """Length of the electrodes along the flow [m]."""
-    field_t: float
-    """Mean gap field at field_reference_temperature_c [T]."""
+    field_t: float | None
+    """Mean gap field at field_reference_temperature_c [T]; None: from magnet_blocks."""
     units: int = 1
     channels: int = 1
     magnet: str = "permanent"
@@ -151,6 +167,21 @@ class ThrusterSpec:
     magnet_heat_capacity_j_k: float = 5000.0
     magnet_conductance_w_k: float = 5.0
     """Thermal conductance from the magnet to the duct water [W/K]."""
+    channel_wiring: str = "parallel"
+    """'parallel' (unit voltage = channel voltage, currents add) or 'series' (unit voltage =
+    channels × channel voltage, unit current = channel current)."""
+    wake_fraction: float = 0.0
+    """Taylor wake fraction w [-]: the intakes see the inflow speed V·(1 − w)."""
+    thrust_deduction: float = 0.0
+    """Thrust deduction fraction t [-]: the hull feels the thrust T·(1 − t)."""
+    gas_model: str = "none"
+    """Conductivity lowered by electrolysis gas: 'none', 'bruggeman' or 'maxwell'."""
+    gas_slip_ratio: float = 1.0
+    """Gas/water velocity ratio of the bubbles [-]."""
+    end_effects: bool = False
+    """Add the fringing current beyond the ends of the active length."""
+    magnet_blocks: MagnetBlocksSpec | None = None
+    """Magnet blocks whose mean field over the channel sets the field (field_t None)."""
 
 
 @dataclass(frozen=True)
@@ -177,6 +208,9 @@ class DriveSpec:
     efficiency: float = 0.95
     undervoltage_margin_v: float = 0.05
     """Per cell: the drive folds back to keep cells this far above their minimum voltage [V]."""
+    overvoltage_margin_v: float = 0.05
+    """Per cell: the drive folds back regenerated power to keep cells this far below their
+    maximum voltage [V]."""
 
 
 @dataclass(frozen=True)

@@ -42,16 +42,40 @@ class SteadyPoint:
     wake_loss_w: float
     drive_loss_w: float
     hotel_w: float
-    electrical_efficiency: float
-    propulsive_efficiency: float
-    overall_efficiency: float
+    eta_electrical: float
+    """Flow work / thruster electrical power (docs/efficiencies.md) [-]."""
+    eta_hydraulic: float
+    """Thrust power (effective thrust × speed) / flow work [-]."""
+    eta_overall: float
+    """Thrust power / thruster electrical power [-]."""
     duct_rise_k: float
-    """Largest outlet temperature rise over the thruster designs [K]."""
+    """Largest bulk outlet temperature rise over the thruster designs (Joule, friction and
+    electrode heat) [K]."""
     h2_mol_s: float
     cl2_mol_s: float
     field_t: tuple[float, ...]
     feasible: bool
     """The pack can deliver the demanded power at the given state of charge."""
+    hull_in_range: bool = True
+    """The speed lies within the hull model's data (False past Holtrop–Mennen's Froude number
+    0.45: the resistance is extrapolated)."""
+    charge_folded: bool = False
+    """The drive folds back regenerated power to the pack's charge limit."""
+
+    @property
+    def electrical_efficiency(self) -> float:
+        """Old name of `eta_electrical` [-]; kept as an alias."""
+        return self.eta_electrical
+
+    @property
+    def propulsive_efficiency(self) -> float:
+        """Old name of `eta_hydraulic` (thrust power / flow work) [-]; kept as an alias."""
+        return self.eta_hydraulic
+
+    @property
+    def overall_efficiency(self) -> float:
+        """Old name of `eta_overall` [-]; kept as an alias."""
+        return self.eta_overall
 
 
 def _state(model: VesselModel, speed: float, soc: float, magnet_c: list[float]):
@@ -166,12 +190,14 @@ def _point(model: VesselModel, speed: float, volts: float, s: Snapshot) -> Stead
         wake_loss_w=s.wake_w,
         drive_loss_w=s.drive_loss_w,
         hotel_w=s.hotel_w,
-        electrical_efficiency=_safe(s.flow_work_w, s.thr_power_w),
-        propulsive_efficiency=_safe(useful, s.flow_work_w),
-        overall_efficiency=_safe(useful, s.thr_power_w),
+        eta_electrical=_safe(s.flow_work_w, s.thr_power_w),
+        eta_hydraulic=_safe(useful, s.flow_work_w),
+        eta_overall=_safe(useful, s.thr_power_w),
         duct_rise_k=max(s.duct_rise_k) if s.duct_rise_k else 0.0,
         h2_mol_s=s.h2,
         cl2_mol_s=s.cl2,
         field_t=tuple(s.field_t),
         feasible=s.feasible,
+        hull_in_range=abs(speed) <= model.plant.hull_max_speed_m_s,
+        charge_folded=s.charge_folded,
     )

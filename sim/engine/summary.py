@@ -7,11 +7,19 @@ analysis passes the series alone). Nothing here reads files.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping
 
 import numpy as np
 
-__all__ = ["NOT_FINISHED", "SUMMARY_UNITS", "summarise"]
+__all__ = [
+    "NOT_FINISHED",
+    "OLD_SERIES_NAMES",
+    "OLD_SUMMARY_KEYS",
+    "SUMMARY_UNITS",
+    "summarise",
+    "upgrade_summary",
+]
 
 NOT_FINISHED = "(log stops here: run not finished)"
 """Ending reason of the summary of a log whose run did not finish."""
@@ -22,8 +30,8 @@ SUMMARY_UNITS = {
     "mean_speed_over_ground_m_s": "m/s",
     "energy_out_j": "J",
     "energy_per_distance_j_m": "J/m",
-    "mean_overall_efficiency": "1",
-    "best_overall_efficiency": "1",
+    "mean_eta_overall": "1",
+    "best_eta_overall": "1",
     "end_state_of_charge": "1",
     "peak_duct_temperature_rise_k": "K",
     "peak_battery_temperature_c": "degC",
@@ -33,14 +41,65 @@ SUMMARY_UNITS = {
     "o2_total_mol": "mol",
     "peak_pack_current_a": "A",
     "peak_thruster_current_a": "A",
+    "energy_busbar_j": "J",
+    "energy_hull_interaction_j": "J",
+    "charge_folded_s": "s",
+    "peak_void_fraction_outlet": "1",
+    "peak_end_current_a": "A",
+    "time_drive_saturated_s": "s",
+    "time_power_folded_s": "s",
+    "time_speed_short_s": "s",
+    "drive_limit_episodes": "1",
     "ending_reason": "",
 }
 """Summary key -> unit text ("" for the ending reason), in the summary's key order."""
+
+OLD_SUMMARY_KEYS = {
+    "mean_overall_efficiency": "mean_eta_overall",
+    "best_overall_efficiency": "best_eta_overall",
+}
+"""Summary keys of logs written before the efficiency names of docs/efficiencies.md -> now."""
+
+OLD_SERIES_NAMES = {
+    "efficiency_electrical": "eta_electrical",
+    "efficiency_propulsive": "eta_hydraulic",
+    "efficiency_overall": "eta_overall",
+}
+"""Channel names of logs written before the efficiency names of docs/efficiencies.md -> now."""
+
+
+def upgrade_summary(summary: Mapping) -> dict:
+    """A stored summary with its old keys (:data:`OLD_SUMMARY_KEYS`) also under their new
+    names, so that readers of old logs find what they look for."""
+    out = dict(summary)
+    for old, new in OLD_SUMMARY_KEYS.items():
+        if old in out and new not in out:
+            out[new] = out[old]
+    return out
+
+
+def _channel(s: Mapping, name: str):
+    """A channel by its name now, or by its old name in an old log (None when neither)."""
+    if name in s:
+        return s[name]
+    for old, new in OLD_SERIES_NAMES.items():
+        if new == name and old in s:
+            return s[old]
+    return None
 
 
 def _trapezoid(y: np.ndarray, t: np.ndarray) -> float:
     y, t = np.asarray(y, dtype=float), np.asarray(t, dtype=float)
     return float(np.sum(0.5 * (y[1:] + y[:-1]) * np.diff(t))) if t.size > 1 else 0.0
+
+
+def _time_flagged(flag: np.ndarray | None, t: np.ndarray) -> float:
+    """Time [s] during which a per-sample flag is set, each sample standing for the interval up
+    to the next one; NaN when the series lacks the channel (logs written before it existed)."""
+    if flag is None:
+        return math.nan
+    on = np.asarray(flag, dtype=float)[:-1] > 0
+    return float(np.sum(np.diff(t)[on])) if t.size > 1 else 0.0
 
 
 def summarise(
@@ -68,14 +127,21 @@ def summarise(
     -------
     dict
         Distance over ground [m], duration [s], mean speed over ground [m/s], pack terminal
-        energy [J] and energy per distance [J/m], mean and best overall efficiency [-] (best
-        over the samples that drive the thrusters), end state of charge [-], peak duct
-        temperature rise [K], peak battery and magnet temperatures [°C], gas evolved [mol],
-        peak pack and total thruster currents [A], and the ending reason.
+        energy [J] and energy per distance [J/m], mean and best overall efficiency η_o [-]
+        (docs/efficiencies.md; best over the samples that drive the thrusters), end state of
+        charge [-], peak duct temperature rise [K], peak battery and magnet temperatures [°C],
+        gas evolved [mol], peak pack and total thruster currents [A], busbar loss energy and
+        hull-interaction energy (wake and thrust deduction) [J], time with regenerated power
+        folded back [s], peak outlet void fraction [-], peak end-fringing current [A], the time
+        the drive spent clamped at its current or voltage limit, folded back to the pack's power
+        limit, and short of a held speed at a limit [s] (each sample standing for the interval to
+        the next; NaN for a log without those channels), the number of separate spells at a
+        drive or pack limit (counted on the samples), and the ending reason. Other channels an
+        old log lacks count as zero.
 
     Notes
     -----
-    Mean overall efficiency = thrust work / thruster electrical energy, where the electrical
+    Mean η_o = thrust work / thruster electrical energy, where the electrical
     energy is the sum of its parts (Joule, electrode, friction, wake, useful) when ``totals``
     are given, else ∫ V·I dt over the samples (the same quantity, to the sampling error).
     Without ``totals`` oxygen is n_O2 = (n_H2 − n_Cl2)/2: all cathode charge evolves hydrogen,
@@ -101,23 +167,46 @@ def summarise(
             + useful
         )
         h2, cl2, o2 = totals["h2_mol"], totals["cl2_mol"], totals["o2_mol"]
+        busbar = totals.get("energy_busbar_j", 0.0)
+        interaction = totals.get("energy_hull_interaction_j", 0.0)
     else:
         energy_out = float(s["energy_out_j"][-1])
         useful = _trapezoid(s["useful_power_w"], s["time_s"])
         thr_energy = _trapezoid(s["thruster_power_w"], s["time_s"])
         h2, cl2 = float(s["h2_total_mol"][-1]), float(s["cl2_total_mol"][-1])
         o2 = max(0.0, 0.5 * (h2 - cl2))
-    eff = np.asarray(s["efficiency_overall"])
+        busbar = _trapezoid(s["busbar_loss_w"], s["time_s"]) if "busbar_loss_w" in s else 0.0
+        interaction = (
+            _trapezoid(s["hull_interaction_power_w"], s["time_s"])
+            if "hull_interaction_power_w" in s
+            else 0.0
+        )
+    eff = np.asarray(_channel(s, "eta_overall"))
+    t = np.asarray(s["time_s"], dtype=float)
+    folded = np.asarray(s["charge_folded"], dtype=float) if "charge_folded" in s else None
+    # time folded back: each sample's state held over the interval that follows it
+    folded_s = float(np.sum(folded[:-1] * np.diff(t))) if folded is not None and n > 1 else 0.0
+
+    def peak(name: str) -> float:
+        return float(np.max(np.abs(s[name]))) if name in s and n else 0.0
+
     driving = np.asarray(s["thruster_power_w"]) > 0
     thruster_current = np.asarray(s["thruster_current_a"], dtype=float).reshape(n, -1)
+    sat, fold = s.get("drive_saturated"), s.get("power_folded")
+    short = s.get("speed_short_m_s")
+    if sat is not None and fold is not None:
+        limited = (np.asarray(sat) > 0) | (np.asarray(fold) > 0)
+        episodes = float(np.count_nonzero(limited[1:] & ~limited[:-1]) + int(limited[0]))
+    else:
+        episodes = math.nan
     return {
         "distance_m": dist,
         "duration_s": dur,
         "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
         "energy_out_j": energy_out,
         "energy_per_distance_j_m": energy_out / dist if dist > 0 else 0.0,
-        "mean_overall_efficiency": useful / thr_energy if thr_energy > 0 else 0.0,
-        "best_overall_efficiency": float(eff[driving].max()) if driving.any() else 0.0,
+        "mean_eta_overall": useful / thr_energy if thr_energy > 0 else 0.0,
+        "best_eta_overall": float(eff[driving].max()) if driving.any() else 0.0,
         "end_state_of_charge": float(s["state_of_charge"][-1]),
         "peak_duct_temperature_rise_k": float(np.max(s["duct_temperature_rise_k"])),
         "peak_battery_temperature_c": float(np.max(s["battery_temperature_c"])),
@@ -127,5 +216,14 @@ def summarise(
         "o2_total_mol": o2,
         "peak_pack_current_a": float(np.max(np.abs(s["pack_current_a"]))),
         "peak_thruster_current_a": float(np.max(np.abs(np.sum(thruster_current, axis=1)))),
+        "energy_busbar_j": busbar,
+        "energy_hull_interaction_j": interaction,
+        "charge_folded_s": folded_s,
+        "peak_void_fraction_outlet": peak("void_fraction_outlet"),
+        "peak_end_current_a": peak("end_current_a"),
+        "time_drive_saturated_s": _time_flagged(sat, t),
+        "time_power_folded_s": _time_flagged(fold, t),
+        "time_speed_short_s": _time_flagged(short, t),
+        "drive_limit_episodes": episodes,
         "ending_reason": ending_reason,
     }

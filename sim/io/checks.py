@@ -254,7 +254,9 @@ def vessel_warnings(spec: VesselFile, file: str, data: dict | None = None) -> li
     out = []
     for i, t in enumerate(spec.thruster):
         key = f"thruster[{i}]"
-        if t.field == 0.0:
+        if t.field is None:  # magnet_blocks: the physics computes the field
+            pass
+        elif t.field == 0.0:
             out.append(
                 Problem(
                     file,
@@ -271,7 +273,7 @@ def vessel_warnings(spec: VesselFile, file: str, data: dict | None = None) -> li
             if t.magnet_grade and t.magnet_grade.upper() in magnets.NDFEB_GRADES:
                 br = magnets.NDFEB_GRADES[t.magnet_grade.upper()].br_tesla
                 what = t.magnet_grade.upper()
-            if t.field > br:
+            if t.field is not None and t.field > br:
                 out.append(
                     Problem(
                         file,
@@ -449,12 +451,28 @@ def scenario_warnings(
         plant = build_plant(vessel_spec(vessel), water(spec.water))
     except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
+    for i, leg in enumerate(spec.leg):
+        if leg.speed is not None and abs(leg.speed) > plant.hull_max_speed_m_s:
+            out.append(
+                Problem(
+                    file,
+                    f"leg[{i}].speed",
+                    _shown(data, f"leg[{i}].speed", leg.speed),
+                    f"past Froude number {plant.hull_max_froude:g} "
+                    f"({plant.hull_max_speed_m_s:.3g} m/s), the end of the data behind the hull "
+                    "model (Holtrop & Mennen 1982): its resistance is extrapolated",
+                    "warning",
+                )
+            )
     vmax = plant.drive_max_voltage_v
     for u in plant.thrusters:
         try:
-            op = operating_point(u.duct, plant.water, 0.0, voltage_v=vmax)
-            if float(op.current_a) > plant.drive_max_current_a:
-                op = operating_point(u.duct, plant.water, 0.0, current_a=plant.drive_max_current_a)
+            n = u.series_factor  # the physics solves the parallel equivalent of series wiring
+            op = operating_point(u.duct, plant.water, 0.0, voltage_v=vmax / n)
+            if float(op.current_a) > plant.drive_max_current_a * n:
+                op = operating_point(
+                    u.duct, plant.water, 0.0, current_a=plant.drive_max_current_a * n
+                )
             rise = float(op.outlet_temperature_rise_k)
             boiling = bool(op.boiling_risk)
         except (ModelRangeError, ValueError, ArithmeticError):

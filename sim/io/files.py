@@ -31,7 +31,7 @@ from sim.io.checks import (
 )
 from sim.io.feasibility import feasibility_problems
 from sim.io.problems import MISSING, InputError, Problem
-from sim.io.schema import ScenarioFile, VesselFile
+from sim.io.schema import Conditions, ScenarioFile, VesselFile
 from sim.io.seam import mission_spec, vessel_spec, water
 
 __all__ = [
@@ -394,6 +394,11 @@ def _model_in(annotation: Any, node: Any) -> type[BaseModel] | None:
     return found[0]
 
 
+def _condition_table(loc: tuple) -> bool:
+    """True for the location of a leg's `until` or a trigger's `when` table."""
+    return len(loc) == 3 and (loc[0], loc[2]) in (("leg", "until"), ("trigger", "when"))
+
+
 def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, file: str):
     problems = []
     for err in exc.errors():
@@ -412,6 +417,17 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
             problems.append(Problem(file, key, value, f"unknown key{hint}{allowed}"))
         elif kind == "missing" and model is ScenarioFile and loc == ("leg",):
             problems.append(Problem(file, key, MISSING, _EMPTY_MISSION))
+        elif kind == "missing" and model is ScenarioFile and _condition_table(loc):
+            what = "end condition" if loc[-1] == "until" else "condition"
+            problems.append(
+                Problem(
+                    file,
+                    key,
+                    MISSING,
+                    f"required key is missing; allowed: an inline table with at least one "
+                    f"{what} of {', '.join(Conditions.model_fields)}",
+                )
+            )
         elif kind == "missing":
             problems.append(Problem(file, key, MISSING, "required key is missing"))
         elif kind == "union_tag_invalid":

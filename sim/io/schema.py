@@ -17,6 +17,7 @@ from pydantic import (
     BeforeValidator,
     ConfigDict,
     Field,
+    PrivateAttr,
     Strict,
     model_validator,
 )
@@ -356,6 +357,24 @@ def _no_brackets(name: str) -> str:
     return name
 
 
+class MagnetBlocks(_Strict):
+    """thruster.magnet_blocks: two facing NdFeB blocks per channel, one on each pole wall, centred
+    on the channel, magnetised along the field. Their mean field over the channel volume (closed-
+    form field of uniformly magnetised blocks, no iron) replaces `field`."""
+
+    width: Length
+    """Block size across the channel (along the electrode gap). Blocks not much wider than the
+    gap give a field that falls towards the electrodes."""
+    length: Length
+    """Block size along the flow. Blocks shorter than active_length give a field that falls
+    towards the channel ends."""
+    thickness: Length
+    """Block size along the magnetisation (the field)."""
+    grade: known_name("magnet grade", _grades, upper=True)
+    """NdFeB grade such as 'N42SH' (case ignored): its nominal remanence at 20 °C sets the field,
+    its temperature coefficient and maximum working temperature act as for magnet_grade."""
+
+
 class ThrusterSpec(_Strict):
     """[[thruster]]: one thruster design; `units` identical copies of it are fitted. Lengths and
     areas here are of one channel or one unit."""
@@ -377,11 +396,24 @@ class ThrusterSpec(_Strict):
     """Length of one channel over which electrodes and field act (where the Lorentz force pushes the
     water)."""
     channels: number(ge=1, le=256, integer=True) = 1
-    """Identical parallel channels in one unit; electrically in parallel (same voltage, currents
-    add)."""
-    field: quantity("field", ge=0, le=30)
+    """Identical channels in one unit, side by side in the flow; electrically as channel_wiring
+    says."""
+    channel_wiring: Literal["parallel", "series"] = "parallel"
+    """How the channels of one unit are connected. 'parallel': the unit voltage is the channel
+    voltage and the channel currents add. 'series': the unit voltage is channels × the channel
+    voltage and the unit current is the channel current. Power, thrust, losses and gas are the
+    same; the drive's max_voltage and max_current apply to the unit values."""
+    field: quantity("field", ge=0, le=30, optional=True) = None
     """Mean magnetic flux density in the gap, at field_reference_temperature. Zero is legal (a
-    thruster without a magnet only heats the water); it draws a warning."""
+    thruster without a magnet only heats the water); it draws a warning. Give either field or
+    magnet_blocks.
+
+    Default: none (then magnet_blocks is required)."""
+    magnet_blocks: MagnetBlocks | None = None
+    """Permanent-magnet blocks on the pole walls whose volume-mean field over the channel is used
+    instead of a given field (see the magnet_blocks table). Needs magnet = 'permanent'.
+
+    Default: none (the given field is used)."""
     magnet: Literal["permanent", "superconducting", "electromagnet"] = "permanent"
     """Kind of magnet. 'permanent' (NdFeB): the field follows the magnet temperature (−0.12 %/K, or
     the coefficient of magnet_grade). 'superconducting' or 'electromagnet': constant field. No
@@ -438,6 +470,51 @@ class ThrusterSpec(_Strict):
     magnet_conductance: quantity("thermal_conductance", gt=0) = 5.0
     """Thermal conductance between the magnet of one unit and the water in its duct (mean of the
     inlet and outlet temperatures)."""
+    wake_fraction: number(ge=-0.3, lt=1) = 0.0
+    """Taylor wake fraction w: the intakes see the inflow speed V·(1 − w) instead of the vessel
+    speed V, which lowers their ram pressure and the thrust power T·V·(1 − w). Published values
+    for propellers behind the hull: single-screw displacement hulls about 0.2–0.35, twin-screw
+    0.05–0.2, submerged bodies of revolution with a stern propeller 0.2–0.4 (Harvald 1983,
+    Resistance and Propulsion of Ships; from memory). Intakes on pylons out of the boundary
+    layer, or flush intakes far forward, see little wake.
+
+    Default: intakes in the free stream (as before this key existed)."""
+    thrust_deduction: number(ge=-0.3, lt=1) = 0.0
+    """Thrust deduction fraction t: the suction of the intakes on the hull raises its
+    resistance, so the hull feels the thrust T·(1 − t). Published values behind a hull: about
+    0.6–0.9 × the wake fraction for single-screw ships (Harvald 1983; from memory).
+
+    Default: no interaction (as before this key existed)."""
+    gas_model: Literal["none", "bruggeman", "maxwell"] = "none"
+    """Lower the conductivity of the water by the electrolysis gas it carries along the channel:
+    'bruggeman' σ/σ0 = (1 − ε)^1.5 (Bruggeman 1935), 'maxwell' 2(1 − ε)/(2 + ε) (Maxwell 1873),
+    solved jointly with the current. The void fractions are logged whatever the choice.
+
+    Default: σ unchanged."""
+    gas_slip_ratio: number(gt=0, le=20) = 1.0
+    """Velocity of the bubbles / velocity of the water along the channel (1: homogeneous flow);
+    above 1 the gas leaves faster and the void fraction is lower."""
+    end_effects: bool = False
+    """Add the current that fringes beyond the two ends of the active length: it draws current
+    and heats the water but gives no thrust."""
+
+    @model_validator(mode="after")
+    def _field_or_blocks(self):
+        if (self.field is None) == (self.magnet_blocks is None):
+            raise PydanticCustomError(
+                "bb_value",
+                "give exactly one of field and magnet_blocks; allowed: a field such as "
+                "'0.75 T', or a magnet_blocks table",
+                {},
+            )
+        if self.magnet_blocks is not None and self.magnet != "permanent":
+            raise PydanticCustomError(
+                "bb_value",
+                "magnet_blocks are permanent magnets, but magnet = '{m}'; allowed: magnet = "
+                "'permanent' or a given field",
+                {"m": self.magnet},
+            )
+        return self
 
     @model_validator(mode="after")
     def _grade_needs_permanent(self):
@@ -486,6 +563,12 @@ class DriveSpec(_Strict):
     undervoltage_margin: quantity("voltage", ge=0, le=1) = 0.05
     """Per cell: the drive folds back its power to keep every cell this far above the cell set's
     minimum voltage."""
+    overvoltage_margin: quantity("voltage", ge=0, le=1) = 0.05
+    """Per cell: when the thrusters regenerate (braking) and the pack would charge, the drive
+    folds back the power it feeds back to keep every cell this far below the cell set's maximum
+    voltage, and the charge current within the cell set's rating.
+
+    Default: the same margin as undervoltage_margin (common practice)."""
 
 
 class HotelSpec(_Strict):
@@ -627,8 +710,9 @@ class Conditions(_Strict):
     acts at once."""
 
     duration: quantity("time", gt=0, optional=True) = None
-    """Time since the current leg started. Only a leg's `until` watches it: in a trigger's `when` it
-    never fires (use time_after).
+    """Time since the current leg started. In a trigger's `when`, too, it counts from the start of
+    whichever leg is being flown (like distance), so the trigger fires in the first leg that lasts
+    this long; use time_after for a time since the start of the run.
 
     Default: not watched."""
     distance: quantity("distance", gt=0, optional=True) = None
@@ -672,9 +756,37 @@ class Conditions(_Strict):
     """Distance over ground since the start of the run at or above this.
 
     Default: not watched."""
+    return_to_start: bool | None = None
+    """true: the vessel is back at its start point. The model is one-dimensional along the track:
+    the position is the signed distance over ground since the start of the run (astern legs and a
+    head current bring it back down), and the condition holds when that position falls to zero or
+    below, i.e. when the vessel is back at (or behind) where the run began. It acts at once in a
+    leg that starts there, so give it to a leg flown after one that went out. false: not watched.
+
+    Default: not watched."""
+
+    _shown: dict[str, str] = PrivateAttr(default_factory=dict)
+
+    @model_validator(mode="wrap")
+    @classmethod
+    def _keep_text(cls, data: Any, handler):
+        """Keep each threshold as the file wrote it ("0.5 kn"), for messages."""
+        model = handler(data)
+        if isinstance(data, dict):
+            model._shown = {
+                k: (v.strip() if isinstance(v, str) else f"{v:g}")
+                for k, v in data.items()
+                if isinstance(v, str | int | float) and not isinstance(v, bool)
+            }
+        return model
 
     def given(self) -> dict[str, float]:
-        return {k: v for k, v in self.model_dump().items() if v is not None}
+        """The conditions set: key -> SI value (true for return_to_start)."""
+        return {k: v for k, v in self.model_dump().items() if v is not None and v is not False}
+
+    def shown(self, key: str) -> str:
+        """A threshold as the file wrote it (e.g. "0.5 kn"); "" when not known."""
+        return self._shown.get(key, "")
 
 
 class LegSpec(_Strict):

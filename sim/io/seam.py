@@ -99,6 +99,20 @@ def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
         housing_form_factor=t.housing_form_factor,
         magnet_heat_capacity_j_k=t.magnet_heat_capacity,
         magnet_conductance_w_k=t.magnet_conductance,
+        channel_wiring=t.channel_wiring,
+        wake_fraction=t.wake_fraction,
+        thrust_deduction=t.thrust_deduction,
+        gas_model=t.gas_model,
+        gas_slip_ratio=t.gas_slip_ratio,
+        end_effects=t.end_effects,
+        magnet_blocks=None
+        if t.magnet_blocks is None
+        else spec.MagnetBlocksSpec(
+            width_m=t.magnet_blocks.width,
+            length_m=t.magnet_blocks.length,
+            thickness_m=t.magnet_blocks.thickness,
+            grade=t.magnet_blocks.grade,
+        ),
     )
 
 
@@ -123,6 +137,7 @@ def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
             max_voltage_v=d.max_voltage,
             efficiency=d.efficiency,
             undervoltage_margin_v=d.undervoltage_margin,
+            overvoltage_margin_v=d.overvoltage_margin,
         ),
         added_mass_rule=rule,
         added_mass_value=value,
@@ -132,13 +147,20 @@ def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
 
 
 def conditions(c: schema.Conditions) -> tuple[Condition, ...]:
-    """The conditions a table gives, in the order of the schema's fields, as event objects.
+    """The conditions a table gives, in the order of the schema's fields, as event objects, each
+    carrying its threshold as the file wrote it (``shown``, for messages).
 
-    ``duration`` is left out: a leg's duration ends it at a known time (``LegSpec.duration_s``)
-    and is not a located event."""
-    return tuple(
-        CONDITIONS[key](float(value)) for key, value in c.given().items() if key != "duration"
-    )
+    A leg's ``duration`` is also given as ``LegSpec.duration_s``: the engine ends the leg at that
+    known time rather than locating an event, and uses the condition only for its message. A flag
+    condition (``return_to_start = true``) has the class's own threshold."""
+    out = []
+    for key, value in c.given().items():
+        cls = CONDITIONS[key]
+        if isinstance(value, bool):
+            out.append(cls(shown=c.shown(key)))
+        else:
+            out.append(cls(float(value), shown=c.shown(key)))
+    return tuple(out)
 
 
 def _leg(leg: schema.LegSpec) -> spec.LegSpec:

@@ -94,11 +94,16 @@ from sim.physics.battery.solvers import (
     REASON_V_MIN,
     PackOperatingPoint,
     max_power_at_min_voltage_w,
+    pack_charge_limit_w,
     pack_power_limit_w,
     solve_current_for_power,
     solve_terminal_for_current,
 )
-from sim.physics.battery.thermal import battery_temperature_rate_k_s, heat_generation_w
+from sim.physics.battery.thermal import (
+    battery_temperature_rate_k_s,
+    busbar_loss_w,
+    heat_generation_w,
+)
 
 __all__ = [
     "CELL_SETS",
@@ -121,11 +126,13 @@ __all__ = [
     "Pack",
     "PackOperatingPoint",
     "battery_temperature_rate_k_s",
+    "busbar_loss_w",
     "drc_dt",
     "dsoc_dt",
     "heat_generation_w",
     "max_power_at_min_voltage_w",
     "ocv_v",
+    "pack_charge_limit_w",
     "pack_power_limit_w",
     "peukert_runtime_h",
     "r0_ohm",

@@ -34,6 +34,7 @@ __all__ = [
     "REASON_V_MIN",
     "PackOperatingPoint",
     "max_power_at_min_voltage_w",
+    "pack_charge_limit_w",
     "pack_power_limit_w",
     "solve_current_for_power",
     "solve_terminal_for_current",
@@ -371,6 +372,71 @@ def pack_power_limit_w(
         i_p = np.where(r_total > 0, e / (2.0 * r_total), np.inf)
     i_lim = np.minimum(np.minimum(i_v, pack.max_discharge_current_a), i_p)
     return np.where(i_lim > 0, i_lim * (e - i_lim * r_total), 0.0)
+
+
+def pack_charge_limit_w(
+    pack: Pack,
+    soc: float,
+    v_rc_total: float,
+    temp_c: float,
+    *,
+    overvoltage_margin_v: float = 0.0,
+) -> float:
+    """Greatest charge power the pack accepts at its terminals while every cell stays at or below
+    its maximum voltage less a margin and the charge current within its rating (scalar).
+
+    Parameters
+    ----------
+    pack : Pack
+        The pack.
+    soc : float
+        State of charge [-].
+    v_rc_total : float
+        Sum of the pack RC-pair voltages Σ V_k [V] (negative after charging).
+    temp_c : float
+        Cell temperature [°C].
+    overvoltage_margin_v : float
+        Margin below the cell maximum voltage that a drive keeps [V per cell], ≥ 0; the cell
+        ceiling is v_max − margin.
+
+    Returns
+    -------
+    float
+        Charge power the pack terminals may absorb [W], ≥ 0 (0 when the cells are already at
+        or above the ceiling).
+
+    Raises
+    ------
+    ModelRangeError
+        If the margin is negative or not a number, or SOC or temperature is out of range.
+
+    Notes
+    -----
+    The mirror of :func:`pack_power_limit_w`. With E = OCV − Σ V_k, R0_cells the cell-string
+    resistance at temperature, R = R0_cells + R_extra and the charge current c = −I > 0, the
+    cell voltage rises linearly, v_cell = (E + c·R0_cells)/n_s. The charge current is the
+    smaller of c_v = (n_s·v_ceiling − E)/R0_cells and the continuous charge rating; the
+    terminal power absorbed is P = c·(E + c·R) (the busbar drop adds to what the charger must
+    supply). With R0_cells = 0 only the current rating binds (cells below the ceiling) or
+    nothing may be charged (at or above it).
+
+    References
+    ----------
+    Plett (2015), Battery Management Systems Vol. I, ch. 2 (equivalent circuit); constant-
+    current/constant-voltage charging to the cell's maximum voltage is common practice.
+    """
+    if not overvoltage_margin_v >= 0.0:
+        raise ModelRangeError(
+            "overvoltage_margin_v", overvoltage_margin_v, "≥ 0 V", "pack charge limit"
+        )
+    ocv, r_cells = _state_scalar(pack, float(soc), float(temp_c))
+    e = ocv - float(v_rc_total)
+    ceiling = (pack.cell.v_max - overvoltage_margin_v) * pack.n_series
+    if e >= ceiling:
+        return 0.0
+    c = math.inf if r_cells <= 0.0 else (ceiling - e) / r_cells
+    c = min(c, pack.max_charge_current_a)
+    return c * (e + c * (r_cells + pack.extra_series_resistance_ohm))
 
 
 max_power_at_min_voltage_w = pack_power_limit_w

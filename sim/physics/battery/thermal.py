@@ -15,7 +15,40 @@ from sim.physics.battery.circuit import Pack, _lerp, _v_list
 from sim.physics.battery.parameters import _MODEL_ECM, KELVIN_OFFSET, _is_scalar
 from sim.physics.errors import ModelRangeError
 
-__all__ = ["battery_temperature_rate_k_s", "heat_generation_w"]
+__all__ = ["battery_temperature_rate_k_s", "busbar_loss_w", "heat_generation_w"]
+
+
+def busbar_loss_w(pack: Pack, current_a: ArrayLike) -> float | np.ndarray:
+    """Joule loss of the pack's extra series resistance (busbars, fuses, contactors).
+
+    Parameters
+    ----------
+    pack : Pack
+        The pack.
+    current_a : float or array
+        Pack current [A] (either sign).
+
+    Returns
+    -------
+    float or ndarray
+        I²·R_extra [W], ≥ 0.
+
+    Notes
+    -----
+    This heat is released in the busbars and contactors, outside the cells: it belongs to the
+    pack's energy balance (OCV energy = terminal energy + cell heat + busbar loss, the
+    reversible heat aside) but not to the cells' thermal state, so the engine passes
+    ``include_busbars=False`` to :func:`heat_generation_w` for the cell temperature.
+
+    References
+    ----------
+    Joule's law; Bernardi, Pawlikowski & Newman (1985) for the cells' own balance.
+    """
+    rx = pack.extra_series_resistance_ohm
+    if _is_scalar(current_a):
+        return current_a * current_a * rx
+    i = np.asarray(current_a, dtype=float)
+    return i * i * rx
 
 
 def heat_generation_w(

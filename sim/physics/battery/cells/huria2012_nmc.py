@@ -8,9 +8,10 @@ dependence for characterization and simulation of high power lithium battery cel
 International Electric Vehicle Conference (IEVC), Greenville SC. doi:10.1109/IEVC.2012.6183271
 (attribution and DOI from memory; the table values as listed in the project's reference sheet).
 
-Not in that table, from memory: v_min 3.0 V / v_max 4.2 V (usual NMC window), continuous limits
-3C discharge / 1C charge, mass 0.65 kg, c_p 1000 J/(kg K), coulombic efficiency 0.999,
-E_a 20 kJ/mol, entropic coefficient neglected.
+Not in that table: v_max 4.2 V and 1C continuous charge (common practice for NMC/graphite cells
+charged constant-current/constant-voltage; enforced by the drive's charge fold-back); from
+memory: v_min 3.0 V, 3C continuous discharge, mass 0.65 kg, c_p 1000 J/(kg K), coulombic
+efficiency 0.999, E_a 20 kJ/mol, entropic coefficient neglected.
 """
 
 from __future__ import annotations

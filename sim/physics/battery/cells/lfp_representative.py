@@ -6,7 +6,8 @@ Representative values, from memory (no published table was at hand to copy); use
 studies only, with loose tolerances. The OCV curve has the LFP/graphite shape (steep below 10 %
 SOC, plateau near 3.3 V, rise above 95 %); R0 ≈ 0.7 mΩ and a fast RC (τ ≈ 15 s) plus a slow RC
 (τ ≈ 400 s) are of the size reported for large-format 100 A·h LFP cells; v_min 2.5 V / v_max
-3.65 V, 1C discharge / 0.5C charge continuous, 2.0 kg, c_p 1100 J/(kg K), coulombic efficiency
+3.65 V (v_max is the usual LFP charge voltage, common practice), 1C discharge / 0.5C charge
+continuous, 2.0 kg, c_p 1100 J/(kg K), coulombic efficiency
 0.999, E_a 20 kJ/mol.
 """
 
