@@ -554,3 +554,12 @@ def test_work_a_command_asks_for_is_bounded_before_anything_runs(argv, capsys, t
     assert code == 2
     assert "allowed: at most" in err and "BRINEBOLT_MAX_" in err
     assert not (tmp_path / "never.h5").exists()
+
+
+def test_a_value_that_rounds_to_zero_never_prints_as_minus_zero():
+    """A field-trial finding: an emptied pack showed "end SOC -0.00 %" in the versus table."""
+    from sim.analysis.tables import Column, _cell
+
+    assert _cell(-1e-9, Column("end SOC", "%"), 2) == "0.00"
+    assert _cell(-0.004, Column("x", "1"), 2) == "0.00"
+    assert _cell(-0.006, Column("x", "1"), 2) == "-0.01"

@@ -185,7 +185,9 @@ def _cell(v: object, c: Column, decimals: int | None) -> str:
         return fmt_duration(x)
     if c.kind == "count":
         return f"{x:.0f}"
-    return f"{x * c.scale:.{0 if decimals is None else decimals}f}"
+    text = f"{x * c.scale:.{0 if decimals is None else decimals}f}"
+    # a value that rounds to zero prints as 0, never "-0.00" (e.g. an end SOC a hair below 0)
+    return text[1:] if text.startswith("-") and not any(ch in "123456789" for ch in text) else text
 
 
 def fmt_duration(seconds: float) -> str:
