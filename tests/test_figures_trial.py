@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import io
 import os
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -268,3 +269,37 @@ def test_report_is_written_atomically_and_the_default_name_is_never_reused(small
     second = write_report(small_log, range_estimate=False)
     assert first.name == "r.report.html" and second.name == "r.report-2.html"
     second.unlink()
+
+
+def test_thruster_curves_table_names_the_buildable_best_and_the_maps_edge(capsys):
+    """Field-trial finding: the map's 'best' point sat in its corner at an unbuildable field;
+    the table now also gives the best point at a buildable field and says when a best point
+    lies on the map's edge."""
+    import os
+
+    from sim.cli import main
+
+    here = os.getcwd()
+    os.chdir(Path(__file__).resolve().parents[1])
+    try:
+        assert (
+            main(
+                [
+                    "thruster-curves",
+                    "vessels/glasswort-drone.toml",
+                    "--no-plots",
+                    "--format",
+                    "json",
+                ]
+            )
+            == 0
+        )
+    finally:
+        os.chdir(here)
+    import json
+
+    doc = json.loads(capsys.readouterr().out)
+    rows = {r["point"]: r for t in doc["tables"] if t["name"] == "map" for r in t["rows"]}
+    assert {"design", "best on the map", "best buildable"} <= set(rows)
+    assert rows["best buildable"]["field [T]"] <= 1.2 + 1e-9  # permanent magnets: common practice
+    assert "edge" in rows["best on the map"]["note"]

@@ -465,7 +465,9 @@ def comparison_data(
                 float(s["h2_total_mol"]) * H2_MOLAR_VOLUME_L,
                 float(s["cl2_total_mol"]) * CL2_MOLAR_MASS_G,
                 100 * float(s["end_state_of_charge"]),
-                r.ending_reason,
+                r.outcome
+                if comparison.is_comparable(r)
+                else f"{r.outcome} (not comparable: another mission flown)",
             )
         )
     return DataTable("ranked", title or "ranked", cols, tuple(rows))

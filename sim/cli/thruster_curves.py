@@ -122,8 +122,6 @@ def cmd_thruster_curves(args) -> int:
     )
     z = emap.overall_efficiency
     if np.isfinite(z).any():
-        iy, ix = np.unravel_index(np.nanargmax(z), z.shape)
-        within = np.where(emap.voltage_v <= emap.drive_max_voltage_v, z, np.nan)
         map_rows = [
             (
                 "design",
@@ -132,26 +130,31 @@ def cmd_thruster_curves(args) -> int:
                 100 * emap.design_efficiency,
                 None,
                 None,
-            ),
-            (
-                "best on the map",
-                1000 * float(emap.gaps_m[ix]),
-                float(emap.fields_t[iy]),
-                100 * float(z[iy, ix]),
-                float(emap.voltage_v[iy, ix]),
-                float(emap.current_a[iy, ix]),
-            ),
+                "",
+            )
         ]
-        if np.isfinite(within).any():
-            jy, jx = np.unravel_index(np.nanargmax(within), z.shape)
+        for label, where in (
+            ("best on the map", emap.best()),
+            ("best buildable", emap.best(buildable=True)),
+            ("best buildable in drive", emap.best(buildable=True, within_drive=True)),
+        ):
+            if where is None:
+                continue
+            iy, ix = where
+            notes = [f"field ≤ {emap.field_limit_t:g} T"] if "buildable" in label else []
+            if "drive" in label:
+                notes.append(f"voltage ≤ {emap.drive_max_voltage_v:g} V")
+            if emap.at_edge(iy, ix):
+                notes.append("at the map's edge: the optimum may lie beyond")
             map_rows.append(
                 (
-                    "best within the drive's voltage",
-                    1000 * float(emap.gaps_m[jx]),
-                    float(emap.fields_t[jy]),
-                    100 * float(within[jy, jx]),
-                    float(emap.voltage_v[jy, jx]),
-                    float(emap.current_a[jy, jx]),
+                    label,
+                    1000 * float(emap.gaps_m[ix]),
+                    float(emap.fields_t[iy]),
+                    100 * float(z[iy, ix]),
+                    float(emap.voltage_v[iy, ix]),
+                    float(emap.current_a[iy, ix]),
+                    "; ".join(notes),
                 )
             )
         out.table(
@@ -166,6 +169,7 @@ def cmd_thruster_curves(args) -> int:
                     Column("η overall", "%"),
                     Column("needs voltage", "V"),
                     Column("needs current", "A"),
+                    Column("note", kind="text"),
                 ),
                 tuple(map_rows),
             )
