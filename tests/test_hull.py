@@ -586,7 +586,7 @@ def test_holtrop_resistance_increases_with_speed(name: str, a: float, b: float) 
 @settings(max_examples=60, deadline=None)
 @given(
     length=st.floats(0.5, 20.0),
-    fineness=st.floats(2.0, 30.0),
+    fineness=st.floats(2.0, 29.99),  # l / (l / 30) may round to 30 + 1 ulp
     v=st.floats(0.0, 20.0),
     dv=st.floats(1e-3, 5.0),
 )

@@ -18,7 +18,6 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import simpy
-from scipy.integrate import solve_ivp
 
 from sim.engine.conditions import (
     BatteryTemperatureAbove,
@@ -706,6 +705,8 @@ class MissionRunner:
 
     def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Armed]):
         """Integrate from t0 towards t1; stop at the first condition that fires."""
+        from scipy.integrate import solve_ivp  # ≈0.3 s to import: only when a run integrates
+
         model = self.model
 
         def make(c: _Armed):

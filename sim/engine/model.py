@@ -25,12 +25,12 @@ import dataclasses
 import math
 
 import numpy as np
-from scipy.optimize import brentq
 
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
 from sim.physics.duct_heat import duct_heat
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
+from sim.physics.roots import brent_root as brentq
 from sim.physics.thruster import U_FLOOR_M_S, prepare_scalar, scalar_point
 
 I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)

@@ -10,10 +10,10 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import brentq
 
 from sim.engine.model import Control, Snapshot, VesselModel, initial_state
 from sim.engine.plant import Plant
+from sim.physics.roots import brent_root as brentq
 
 __all__ = ["SteadyError", "SteadyPoint", "steady_at_speed", "steady_speed_for"]
 

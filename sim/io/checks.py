@@ -20,10 +20,10 @@ import math
 import re
 from typing import Any
 
-from sim.engine.plant import build_plant, hull_model, thruster_unit
+from sim.engine.plant import hull_model, thruster_unit
 from sim.io.problems import MISSING, Problem
 from sim.io.schema import DisplacementHull, LegSpec, ScenarioFile, VesselFile
-from sim.io.seam import hull_spec, thruster_spec, vessel_spec, water
+from sim.io.seam import hull_spec, plant_of, thruster_spec, vessel_spec, water
 from sim.physics import battery, magnets
 from sim.physics.constants import KNOT_M_S
 from sim.physics.errors import ModelRangeError
@@ -448,7 +448,7 @@ def scenario_warnings(
     """Warnings that need the built plant (e.g. boiling water at bollard)."""
     out = []
     try:
-        plant = build_plant(vessel_spec(vessel), water(spec.water))
+        plant = plant_of(vessel_spec(vessel), water(spec.water))
     except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
     for i, leg in enumerate(spec.leg):

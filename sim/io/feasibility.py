@@ -16,11 +16,10 @@ back later in the run.
 from __future__ import annotations
 
 from sim.engine.model import Control, VesselModel, initial_state
-from sim.engine.plant import build_plant
 from sim.engine.steady import SteadyError, steady_at_speed, steady_speed_for
 from sim.io.problems import MISSING, Problem
 from sim.io.schema import LegSpec, ScenarioFile, VesselFile
-from sim.io.seam import vessel_spec, water
+from sim.io.seam import plant_of, vessel_spec, water
 from sim.physics.constants import KNOT_M_S
 from sim.physics.errors import ModelRangeError
 
@@ -115,7 +114,7 @@ def feasibility_problems(
         loaders report that).
     """
     try:
-        plant = build_plant(vessel_spec(vessel), water(spec.water))
+        plant = plant_of(vessel_spec(vessel), water(spec.water))
     except (ModelRangeError, ValueError, ArithmeticError):
         return []
     soc = spec.start.state_of_charge

@@ -166,7 +166,7 @@ Electrode = known_name("electrode material", _electrodes)
 
 
 class _Strict(BaseModel):
-    model_config = ConfigDict(extra="forbid", frozen=True)
+    model_config = ConfigDict(extra="forbid", frozen=True, defer_build=True)
 
 
 Length = quantity("length", gt=0, le=1e4)

@@ -9,8 +9,11 @@ results (:class:`sim.io.files.LoadedVessel.vessel_spec`,
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 from sim.engine import spec
 from sim.engine.conditions import CONDITIONS, Condition
+from sim.engine.plant import Plant, build_plant
 from sim.io import schema
 
 __all__ = [
@@ -18,6 +21,7 @@ __all__ = [
     "hull_spec",
     "limits_spec",
     "mission_spec",
+    "plant_of",
     "thruster_spec",
     "vessel_spec",
     "water",
@@ -217,3 +221,21 @@ def mission_spec(sf: schema.ScenarioFile) -> spec.MissionSpec:
         sample_s=sf.output.sample,
         solver=spec.SolverSpec(rtol=sv.rtol, max_step_s=sv.max_step, method=sv.method),
     )
+
+
+def plant_of(vessel: spec.VesselSpec, water: spec.Water) -> Plant:
+    """:func:`sim.engine.plant.build_plant`, once per vessel and water.
+
+    The load-time checks (:func:`sim.io.checks.scenario_warnings`) and the steady checks of
+    ``brinebolt check`` (:mod:`sim.io.feasibility`) share the one plant (a plant is frozen;
+    models keep their own caches). A plant that cannot be built raises each time."""
+    try:
+        hash((vessel, water))
+    except TypeError:  # a spec that cannot be a cache key: build it afresh
+        return build_plant(vessel, water)
+    return _plant_of(vessel, water)
+
+
+@lru_cache(maxsize=8)
+def _plant_of(vessel: spec.VesselSpec, water: spec.Water) -> Plant:
+    return build_plant(vessel, water)

@@ -7,6 +7,12 @@ modules use (temperatures come back in °C, the unit the seawater correlations t
 temperature *difference* written in °C or °F (``"10 degC"`` for a rise) is read as a difference
 (10 K), never as an absolute temperature converted to kelvin.
 The physics core never sees pint.
+
+Start-up: importing pint and building its registry takes about 0.3 s, more than the rest of
+``brinebolt check``. The plain units files use most (:data:`SI_FACTORS`: ``"m"``, ``"kn"``,
+``"min"``, ``"degC"`` ...) are therefore converted with the very factor pint uses (a test
+re-derives every one from pint and checks the results bit for bit); any other unit text, and
+every error message, still goes through pint.
 """
 
 from __future__ import annotations
@@ -70,6 +76,94 @@ class UnitParseError(ValueError):
         self.reason = reason
         self.allowed = allowed
         super().__init__(f"{reason}; allowed: {allowed}")
+
+
+SI_FACTORS: dict[tuple[str, str], float] = {
+    # (unit text, kind): the factor pint multiplies the number by (value * factor), generated
+    # by pint_factor_table() with pint 0.25; tests/test_units_fast.py re-derives every entry
+    ("m", "length"): 1.0,
+    ("mm", "length"): 0.001,
+    ("cm", "length"): 0.01,
+    ("km", "length"): 1000.0,
+    ("um", "length"): 1e-06,
+    ("ft", "length"): 0.30479999999999996,
+    ("in", "length"): 0.0254,
+    ("m", "distance"): 1.0,
+    ("km", "distance"): 1000.0,
+    ("nmi", "distance"): 1852.0,
+    ("m^2", "area"): 1.0,
+    ("m**2", "area"): 1.0,
+    ("cm^2", "area"): 0.0001,
+    ("mm^2", "area"): 1e-06,
+    ("m^3", "volume"): 1.0,
+    ("m**3", "volume"): 1.0,
+    ("L", "volume"): 0.0010000000000000002,
+    ("l", "volume"): 0.0010000000000000002,
+    ("kg", "mass"): 1.0,
+    ("g", "mass"): 0.001,
+    ("t", "mass"): 1000.0,
+    ("kn", "speed"): 0.5144444444444445,
+    ("knot", "speed"): 0.5144444444444445,
+    ("knots", "speed"): 0.5144444444444445,
+    ("m/s", "speed"): 1.0,
+    ("km/h", "speed"): 0.2777777777777778,
+    ("s", "time"): 1.0,
+    ("ms", "time"): 0.001,
+    ("min", "time"): 60.0,
+    ("h", "time"): 3600.0,
+    ("hr", "time"): 3600.0,
+    ("d", "time"): 86400.0,
+    ("N", "force"): 1.0,
+    ("kN", "force"): 1000.0,
+    ("W", "power"): 1.0,
+    ("kW", "power"): 1000.0,
+    ("MW", "power"): 1000000.0,
+    ("V", "voltage"): 1.0,
+    ("mV", "voltage"): 0.001,
+    ("kV", "voltage"): 1000.0,
+    ("A", "current"): 1.0,
+    ("mA", "current"): 0.001,
+    ("kA", "current"): 1000.0,
+    ("ohm", "resistance"): 1.0,
+    ("mohm", "resistance"): 0.001,
+    ("A*h", "charge"): 1.0,
+    ("Ah", "charge"): 1.0,
+    ("mAh", "charge"): 0.001,
+    ("J", "energy"): 1.0,
+    ("kJ", "energy"): 1000.0,
+    ("MJ", "energy"): 1000000.0,
+    ("Wh", "energy"): 3600.0,
+    ("kWh", "energy"): 3600000.0,
+    ("MWh", "energy"): 3600000000.0,
+    ("T", "field"): 1.0,
+    ("mT", "field"): 0.001,
+    ("degC", "temperature"): 1.0,
+    ("K", "temperature_difference"): 1.0,
+    ("delta_degC", "temperature_difference"): 1.0,
+    ("degC", "temperature_difference"): 1.0,
+    ("dbar", "pressure"): 1.0,
+    ("kPa", "pressure"): 0.1,
+    ("Pa", "pressure"): 0.0001,
+    ("bar", "pressure"): 10.0,
+    ("W/K", "thermal_conductance"): 1.0,
+    ("J/K", "heat_capacity"): 1.0,
+    ("kJ/K", "heat_capacity"): 1000.0,
+    ("V/(m/s)", "gain_per_speed"): 1.0,
+    ("V/m", "gain_per_distance"): 1.0,
+    ("m^3/s", "volumetric_rate"): 1.0,
+    ("L/min", "volumetric_rate"): 1.666666666666667e-05,
+    ("L/s", "volumetric_rate"): 0.0010000000000000002,
+}
+"""Unit texts converted without pint: ``(unit text, kind name) -> factor``, so that
+``to_si("3 kn", "speed") == 3.0 * 0.5144444444444445``, exactly what pint returns. Only units
+whose conversion is one multiplication are listed (``"degC"`` to °C and a ``"degC"`` rise to K
+are the factor 1); ``"K"`` or ``"degF"`` as a temperature, and anything not listed, go to pint."""
+
+
+def pint_factor_table(keys=None) -> dict[tuple[str, str], float]:
+    """The factors of :data:`SI_FACTORS` (or of ``keys``) as pint computes them now: the value
+    pint returns for the number 1 (pint converts ``value * factor``). Imports pint."""
+    return {(u, k): _convert(1.0, u, k) for u, k in (SI_FACTORS if keys is None else keys)}
 
 
 @lru_cache(maxsize=1)
@@ -176,7 +270,8 @@ def to_si(value: object, kind_name: str) -> float:
         if number == 0 and kind.name != "temperature":
             return 0.0
         raise UnitParseError(f"{value!r} has no unit", allowed)
-    result = _convert(number, unit_text, kind.name)
+    factor = SI_FACTORS.get((unit_text, kind.name))
+    result = number * factor if factor is not None else _convert(number, unit_text, kind.name)
     if not math.isfinite(result):
         raise UnitParseError(f"{value!r} is not a finite quantity", allowed)
     return result

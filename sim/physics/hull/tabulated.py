@@ -10,10 +10,13 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 import numpy as np
 from numpy.typing import ArrayLike
-from scipy.interpolate import PchipInterpolator
+
+if TYPE_CHECKING:
+    from scipy.interpolate import PchipInterpolator
 
 from sim.physics.errors import ModelRangeError
 from sim.physics.hull.interface import ResistanceBreakdown, _breakdown, _check_fluid, _positive
@@ -93,6 +96,8 @@ class TabulatedResistance:
             raise ModelRangeError("resistances_n", tuple(r), "not all zero", _TABLE)
         object.__setattr__(self, "speeds_m_s", tuple(float(x) for x in v))
         object.__setattr__(self, "resistances_n", tuple(float(x) for x in r))
+        from scipy.interpolate import PchipInterpolator  # ≈0.3 s to import: only when used
+
         object.__setattr__(self, "_interp", PchipInterpolator(v, r, extrapolate=False))
 
     @property
