@@ -342,6 +342,39 @@ class _Episode:
         return False
 
 
+class _Columns:
+    """The logged samples kept for the run's result, as preallocated numpy columns that grow by
+    doubling (a row of dicts costs about 40× the memory: benchmarks/PROFILE.md §5.4)."""
+
+    def __init__(self) -> None:
+        self.n = 0
+        self.cols: dict[str, np.ndarray] = {}
+        self.last: dict | None = None
+
+    def append(self, row: dict) -> None:
+        if not self.cols:
+            for k, v in row.items():
+                if isinstance(v, list):
+                    self.cols[k] = np.empty((64, len(v)))
+                elif isinstance(v, int | bool | np.integer):
+                    self.cols[k] = np.empty(64, dtype=np.int64)
+                else:
+                    self.cols[k] = np.empty(64)
+        n = self.n
+        if n == len(self.cols["time_s"]):
+            for k, a in self.cols.items():
+                b = np.empty((2 * n, *a.shape[1:]), dtype=a.dtype)
+                b[:n] = a
+                self.cols[k] = b
+        for k, v in row.items():
+            self.cols[k][n] = v
+        self.n = n + 1
+        self.last = row
+
+    def series(self) -> dict[str, np.ndarray]:
+        return {k: a[: self.n].copy() for k, a in self.cols.items()}
+
+
 # ------------------------------------------------------------------ observers and results
 
 
@@ -426,7 +459,7 @@ class MissionRunner:
         self.leg_names = {leg.name: i for i, leg in enumerate(self.legs)}
         self._events: list[dict] = []
         self._legs_out: list[dict] = []
-        self._rows: list[dict] = []
+        self._rows = _Columns()
         self._pending_rows: list[dict] = []
         self._seen: set = set()  # once-per-run sample events already emitted
         self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
@@ -622,7 +655,7 @@ class MissionRunner:
 
     # ------------------------------------------------------------------ integration
     def _record(self, t: float, y: np.ndarray) -> None:
-        if self._rows and self._rows[-1]["time_s"] == t:
+        if self._rows.last is not None and self._rows.last["time_s"] == t:
             return  # one row per instant: the first (before an event acts) is kept
         self._last_ty = (t, y)
         row = sample_row(self.model, t, y, self.m.leg_index)
@@ -634,9 +667,7 @@ class MissionRunner:
                     self.legs[self.m.leg_index].name,
                     self._state_dict(y),
                 )
-        for kind, message in sample_events(
-            self.plant, self._rows[-1] if self._rows else None, row, self._seen
-        ):
+        for kind, message in sample_events(self.plant, self._rows.last, row, self._seen):
             self._emit(t, kind, self.m.leg_index, message)
         self._rows.append(row)
         self._pending_rows.append(row)
@@ -1071,8 +1102,7 @@ class MissionRunner:
         return self._result(_time.perf_counter() - wall0)
 
     def _result(self, wall: float) -> RunResult:
-        keep = self._rows
-        series = {k: np.array([r[k] for r in keep]) for k in keep[0]}
+        series = self._rows.series()
         y = self._final_y
         lay = self.model.lay
         totals = {name: float(y[lay.acc[name]]) for name in ACC_NAMES}
