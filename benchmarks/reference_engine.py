@@ -388,6 +388,8 @@ def _condition_fn(cond, model: ReferenceModel, leg_x0: list[float]):
         return lambda t, y: y[SOC] - thr
     if key == "time_after":
         return lambda t, y: t - thr
+    if key == "duration":  # in a trigger: time since the start of the active leg
+        return lambda t, y: t - leg_x0[1] - thr
     raise NotImplementedError(f"reference: condition {key!r}")
 
 
@@ -424,7 +426,7 @@ def run_reference(
     events: list = []
     rows: list = []
     steps = 0
-    leg_x0 = [0.0]
+    leg_x0 = [0.0, 0.0]  # distance and time at the start of the active leg
     stop_soc = mission.limits.state_of_charge_min
 
     def start_leg(i: int, y: np.ndarray) -> tuple[int, float]:
@@ -436,13 +438,15 @@ def run_reference(
             m.tune(y, leg)
             y[m.i_pi] = 0.0
         leg_x0[0] = float(y[X])
+        leg_x0[1] = t
         events.append((t, "leg start", leg.name))
         return i, t
 
     li, leg_t0 = start_leg(0, y)
     while True:
         leg = legs[li]
-        armed = [("leg", c, li) for c in leg.until]
+        # a leg's duration ends it at a known time (the horizon), as in the engine
+        armed = [("leg", c, li) for c in leg.until if c.key != "duration"]
         armed += [
             ("trigger", c, k)
             for k, tr in enumerate(mission.triggers)

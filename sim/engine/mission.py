@@ -30,6 +30,8 @@ from sim.engine.conditions import (
     PackHeadroomExhausted,
     SocBelow,
 )
+from sim.engine.integrator import METHOD as STEPPER_METHOD
+from sim.engine.integrator import TRBDF2, IntegratorFailure
 from sim.engine.model import (
     ACC_NAMES,
     I_RC1,
@@ -48,6 +50,7 @@ from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
 from sim.physics.constants import KNOT_M_S
+from sim.physics.roots import brent_root
 
 __all__ = [
     "SUMMARY_UNITS",  # re-exported from sim.engine.summary
@@ -338,6 +341,39 @@ class _Episode:
         return False
 
 
+class _Columns:
+    """The logged samples kept for the run's result, as preallocated numpy columns that grow by
+    doubling (a row of dicts costs about 40× the memory: benchmarks/PROFILE.md §5.4)."""
+
+    def __init__(self) -> None:
+        self.n = 0
+        self.cols: dict[str, np.ndarray] = {}
+        self.last: dict | None = None
+
+    def append(self, row: dict) -> None:
+        if not self.cols:
+            for k, v in row.items():
+                if isinstance(v, list):
+                    self.cols[k] = np.empty((64, len(v)))
+                elif isinstance(v, int | bool | np.integer):
+                    self.cols[k] = np.empty(64, dtype=np.int64)
+                else:
+                    self.cols[k] = np.empty(64)
+        n = self.n
+        if n == len(self.cols["time_s"]):
+            for k, a in self.cols.items():
+                b = np.empty((2 * n, *a.shape[1:]), dtype=a.dtype)
+                b[:n] = a
+                self.cols[k] = b
+        for k, v in row.items():
+            self.cols[k][n] = v
+        self.n = n + 1
+        self.last = row
+
+    def series(self) -> dict[str, np.ndarray]:
+        return {k: a[: self.n].copy() for k, a in self.cols.items()}
+
+
 # ------------------------------------------------------------------ observers and results
 
 
@@ -422,12 +458,14 @@ class MissionRunner:
         self.leg_names = {leg.name: i for i, leg in enumerate(self.legs)}
         self._events: list[dict] = []
         self._legs_out: list[dict] = []
-        self._rows: list[dict] = []
+        self._rows = _Columns()
         self._pending_rows: list[dict] = []
         self._seen: set = set()  # once-per-run sample events already emitted
         self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
         self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
+        self._h_hint: float | None = None  # first step of the next stepper segment [s]
+        self._wall0 = self._last_flush = 0.0
         lay = self.model.lay
         self.atol = np.full(lay.size, 1e-6)
         self.atol[I_XG] = self.atol[I_XW] = 1e-4
@@ -616,7 +654,7 @@ class MissionRunner:
 
     # ------------------------------------------------------------------ integration
     def _record(self, t: float, y: np.ndarray) -> None:
-        if self._rows and self._rows[-1]["time_s"] == t:
+        if self._rows.last is not None and self._rows.last["time_s"] == t:
             return  # one row per instant: the first (before an event acts) is kept
         self._last_ty = (t, y)
         row = sample_row(self.model, t, y, self.m.leg_index)
@@ -628,9 +666,7 @@ class MissionRunner:
                     self.legs[self.m.leg_index].name,
                     self._state_dict(y),
                 )
-        for kind, message in sample_events(
-            self.plant, self._rows[-1] if self._rows else None, row, self._seen
-        ):
+        for kind, message in sample_events(self.plant, self._rows.last, row, self._seen):
             self._emit(t, kind, self.m.leg_index, message)
         self._rows.append(row)
         self._pending_rows.append(row)
@@ -703,8 +739,122 @@ class MissionRunner:
         names += ["speed-hold integral", *ACC_NAMES]
         return names[: lay.size]
 
+    def _checked_rhs(self, t, y):
+        """The model's right-hand side; remembers where it is, so a failure can say so; refuses
+        NaN/inf."""
+        self._last_ty = (t, y)
+        dy = self.model.rhs(t, y)
+        if not np.isfinite(dy).all():
+            bad = ", ".join(self._state_names()[k] for k in np.flatnonzero(~np.isfinite(dy)))
+            raise SolverFailure(
+                f"non-finite derivative of {bad}",
+                t,
+                self.legs[self.m.leg_index].name,
+                self._state_dict(y),
+            )
+        return dy
+
+    def _dynamic_indices(self) -> list[int]:
+        """State components the derivatives depend on under the active control (the rest are
+        quadratures: distances, accumulators, a magnet whose field does not depend on its
+        temperature, an unused RC pair or speed-hold integral)."""
+        lay, p = self.model.lay, self.plant
+        idx = [I_V, I_SOC, I_RC1]
+        if p.pack.n_rc > 1:
+            idx.append(I_RC2)
+        idx.append(I_TB)
+        idx += [lay.i_mag + k for k, u in enumerate(p.thrusters) if u.alpha_br_per_k != 0.0]
+        if self.model.control.mode == "speed":
+            idx.append(lay.i_pi)
+        return idx
+
     def _segment(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Armed]):
         """Integrate from t0 towards t1; stop at the first condition that fires."""
+        if self.method == STEPPER_METHOD:
+            return self._segment_stepper(t0, t1, y0, conds)
+        return self._segment_solve_ivp(t0, t1, y0, conds)
+
+    def _segment_stepper(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Armed]):
+        """Integrate from t0 towards t1 step by step (:class:`~sim.engine.integrator.TRBDF2`);
+        after each step, check the conditions' signs at its end, locate the first one that
+        fired on the step's dense output (Brent), record the step's grid points, and flush the
+        samples by wall clock (without cutting the integration)."""
+        try:
+            st = TRBDF2(
+                self._checked_rhs,
+                t0,
+                y0,
+                t1,
+                rtol=self.rtol,
+                atol=self.atol,
+                max_step=self.max_step,
+                dynamic=self._dynamic_indices(),
+                first_step=1.0,
+            )
+            g_prev = [self._value(c, t0, y0) for c in conds]
+            while st.t < t1:
+                t_a = st.t
+                st.step()
+                dense = st.dense
+                t_b, y_b = st.t, st.y
+                fired, t_e = None, math.inf
+                g_new = [self._value(c, t_b, y_b) for c in conds]
+                for c, ga, gb in zip(conds, g_prev, g_new, strict=True):
+                    d = c.cond.direction
+                    up, down = ga <= 0.0 <= gb, ga >= 0.0 >= gb
+                    if (d > 0 and up) or (d < 0 and down) or (d == 0 and (up or down)):
+                        root = t_b if gb == 0.0 else self._locate(c, t_a, t_b, dense)
+                        if root < t_e:
+                            t_e, fired = root, c
+                if fired is not None:
+                    y_e = y_b.copy() if t_e == t_b else dense(t_e)
+                    self._record_grid(t_a, t_e, y_e, dense)
+                    self._h_hint = st.h
+                    return t_e, y_e, fired, None
+                self._record_grid(t_a, t_b, y_b, dense)
+                g_prev = g_new
+                wall = _time.perf_counter()
+                if wall - self._last_flush > self.chunk_wall_s:
+                    self.obs.progress(t_b, self.time_limit, wall - self._wall0)
+                    self._flush_rows()
+                    self._last_flush = wall
+        except SolverFailure:
+            raise
+        except IntegratorFailure as exc:
+            t_bad, y_bad = self._last_ty
+            raise SolverFailure(
+                f"integrator failure ({exc})",
+                float(t_bad),
+                self.legs[self.m.leg_index].name,
+                self._state_dict(y_bad),
+            ) from exc
+        except Exception as exc:  # the model raised inside the integrator
+            t_bad, y_bad = self._last_ty
+            raise SolverFailure(
+                f"model failure ({type(exc).__name__}: {exc})",
+                float(t_bad),
+                self.legs[self.m.leg_index].name,
+                self._state_dict(y_bad),
+            ) from exc
+        self._h_hint = st.h
+        return st.t, st.y.copy(), None, None
+
+    def _locate(self, c: _Armed, t_a: float, t_b: float, dense) -> float:
+        """Time at which a condition crosses zero inside one step (Brent on the dense output)."""
+
+        def g(t: float) -> float:
+            return self._value(c, t, dense(t))
+
+        ga, gb = g(t_a), g(t_b)
+        if ga == 0.0:
+            return t_a
+        if ga * gb > 0.0:  # the interpolant disagrees with the step ends: take the end
+            return t_b
+        return brent_root(g, t_a, t_b, xtol=4 * np.finfo(float).eps, rtol=4 * np.finfo(float).eps)
+
+    def _segment_solve_ivp(self, t0: float, t1: float, y0: np.ndarray, conds: list[_Armed]):
+        """Integrate from t0 towards t1 with :func:`scipy.integrate.solve_ivp`; stop at the
+        first condition that fires."""
         from scipy.integrate import solve_ivp  # ≈0.3 s to import: only when a run integrates
 
         model = self.model
@@ -801,7 +951,10 @@ class MissionRunner:
         self._record(t, y)
         self._next_k = 1  # the next grid point to write (k·sample_s)
         wall0 = last_flush = _time.perf_counter()
-        chunk = self.time_limit / 50.0  # progress and flushes on long legs
+        self._wall0 = self._last_flush = wall0
+        # solve_ivp: segments of at most a fiftieth of the run for progress and flushes; the
+        # step-by-step integrator flushes by wall clock inside a segment and is not restarted
+        chunk = self.time_limit / 50.0 if self.method != STEPPER_METHOD else math.inf
         while True:
             leg = self.legs[m.leg_index]
             conds = self._active_conditions()
@@ -817,9 +970,9 @@ class MissionRunner:
                 yield env.timeout(max(0.0, t - env.now))
                 wall = _time.perf_counter()
                 self.obs.progress(t, self.time_limit, wall - wall0)
-                if wall - last_flush > self.chunk_wall_s:
+                if wall - max(last_flush, self._last_flush) > self.chunk_wall_s:
                     self._flush_rows()
-                    last_flush = wall
+                    last_flush = self._last_flush = wall
                 if fired is None:
                     if t >= self.time_limit:
                         self._record(t, y)
@@ -950,8 +1103,7 @@ class MissionRunner:
         return self._result(_time.perf_counter() - wall0)
 
     def _result(self, wall: float) -> RunResult:
-        keep = self._rows
-        series = {k: np.array([r[k] for r in keep]) for k in keep[0]}
+        series = self._rows.series()
         y = self._final_y
         lay = self.model.lay
         totals = {name: float(y[lay.acc[name]]) for name in ACC_NAMES}

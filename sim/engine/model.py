@@ -155,6 +155,7 @@ class VesselModel:
         self._cache: Snapshot | None = None
         self._control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
         self._consts = [prepare_scalar(u.duct, plant.water) for u in plant.thrusters]
+        self._key_zero = bytes(8 * (I_SOC - I_XG))
         self.n_rhs = 0
 
     @property
@@ -246,7 +247,10 @@ class VesselModel:
 
     # ------------------------------------------------------------------ algebra
     def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
-        key = (t, y.tobytes())
+        # the algebra reads only the dynamic states (not t, the distances or the accumulators)
+        key = y[: self.lay.i_acc].tobytes()
+        if key[8 * I_XG : 8 * I_SOC] != self._key_zero:
+            key = key[: 8 * I_XG] + self._key_zero + key[8 * I_SOC :]
         if key == self._cache_key:
             return self._cache
         s = self._evaluate(y)

@@ -665,10 +665,12 @@ class SolverSpec(_Strict):
     """
     max_step: quantity("time", gt=0) = 600.0
     """Largest step the integrator may take."""
-    method: Literal["RK45", "DOP853", "LSODA", "Radau", "BDF"] = "RK45"
-    """scipy.integrate.solve_ivp method: explicit Runge–Kutta (RK45, DOP853) for most missions,
-    LSODA (switches to a stiff method) for long steady legs with a fast speed hold, Radau or BDF for
-    stiff plants."""
+    method: Literal["RK45", "DOP853", "LSODA", "Radau", "BDF", "TR-BDF2"] = "RK45"
+    """Integration method: brinebolt's own TR-BDF2 (a stiff, L-stable second-order method driven
+    step by step, not restarted at progress or flush points; `sim.engine.integrator`), or a
+    scipy.integrate.solve_ivp method: explicit Runge–Kutta (RK45, DOP853), LSODA (switches to a
+    stiff method) for long steady legs with a fast speed hold, Radau or BDF for stiff plants (these
+    also serve to verify TR-BDF2 at a tight rtol)."""
     allow_large: Annotated[bool, Strict()] = False
     """Run the scenario even when it asks for more work than brinebolt's limits (logged samples,
     integrator steps, legs, triggers, schedule entries; see `sim.io.budget`), which are there to

@@ -1453,9 +1453,19 @@ def scalar_point(
     i_end = 0.0
     if voltage_v is not None:
         volt = sv * float(voltage_v)
-        u_pass, _, disk = _iterate_scalar(k, v0, None, 0.0, False)
-        net = volt - vg - _open_circuit_emf_scalar(k, u_pass)
-        s = 1.0 if net > k.vd else (-1.0 if net < -k.vd else 0.0)
+        # The no-current (dead-band) flow u_pass only decides the sign of the electrode current
+        # when the command lies within reach of its open-circuit emf. Without current the duct
+        # is passive: its energy equation gives 0 ≤ u_pass ≤ r·V0 (ducted, r the nozzle area
+        # ratio) or ≤ V0 (disk), so |emf| ≤ max(1, r)·V0·|B|·gap. Beyond that bound the sign is
+        # known and the solve is skipped (the result is the same: the driven solve below sets
+        # u and the jet branch).
+        emf_max = max(1.0, k.r) * v0 * abs(k.b) * k.gap * (1.0 + 1e-9) + 1e-12
+        if abs(volt - vg) - k.vd > emf_max:
+            s = 1.0 if volt - vg > 0.0 else -1.0
+        else:
+            u_pass, _, disk = _iterate_scalar(k, v0, None, 0.0, False)
+            net = volt - vg - _open_circuit_emf_scalar(k, u_pass)
+            s = 1.0 if net > k.vd else (-1.0 if net < -k.vd else 0.0)
         if s == 0.0:
             u, sig, j, e_field = u_pass, k.sig_in, 0.0, u_pass * k.b
         else:
