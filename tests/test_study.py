@@ -340,3 +340,15 @@ def test_xarray_reads_the_table_without_brinebolt(tmp_path):
         assert sorted(ds["distance_m"].values) == sorted(
             r["distance_m"] for r in read_table(res.out_path)
         )
+
+
+def test_a_changed_constraint_is_judged_again_on_resume_without_flying(tmp_path):
+    p = _write(tmp_path, TINY)
+    out = tmp_path / "r.h5"
+    assert all(r["feasible"] for r in run_study(p, out=out, jobs=1).sweep)
+    p.write_text(TINY.replace("max = 600", "max = 1"), encoding="utf-8")
+    again = run_study(p, out=out, jobs=1)
+    assert again.flown == 0 and not any(r["feasible"] for r in again.sweep)
+    # the mass model is part of a variant's identity: adding it flies the variants again
+    p.write_text(TINY + '\n[mass]\ntrim_ballast = "5 kg"\n', encoding="utf-8")
+    assert run_study(p, out=out, jobs=1).flown == 4

@@ -224,7 +224,7 @@ def study_figures(result: StudyResult) -> dict[str, Figure]:
             spec.vary[1].key,
             objective[0],
             objective[1],
-            title=f"{title}: best {objective[0]} over {spec.vary[0].name} × {spec.vary[1].name}",
+            title=f"{title}\nbest {objective[0]} over {spec.vary[0].name} × {spec.vary[1].name}",
         )
     if result.front and len(result.front_objectives) >= 2:
         figs["front"] = front_figure(

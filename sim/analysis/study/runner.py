@@ -8,6 +8,7 @@ study resumes where it stopped, and the optimiser never flies a point twice.
 
 from __future__ import annotations
 
+import json
 import math
 import os
 from collections.abc import Callable, Sequence
@@ -97,6 +98,8 @@ class StudyRunner:
         self._own_client = False
         self.flown = 0
         """Variants actually flown by this runner (not found in the table)."""
+        for row in store.rows.values():  # the constraints may have changed since they flew
+            judge(row, self.constraints, self.constraint_columns)
 
     # -------------------------------------------------------------- executors
 
@@ -134,8 +137,10 @@ class StudyRunner:
 
     def job(self, settings) -> Job:
         settings = tuple(settings)
+        # the identity covers what else shapes the run: the sampling and the mass model
+        ident = (*settings, ("@sample_s", self.sample_s), ("@mass", json.dumps(self.mass)))
         return Job(
-            variant_id(settings),
+            variant_id(ident),
             self.scenario_path,
             self.vessel_path,
             settings,

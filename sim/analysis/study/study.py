@@ -450,7 +450,8 @@ def optimise(study: LoadedStudy, runner: StudyRunner, seed: int) -> Optimum:
 
 def pareto_front(study: LoadedStudy, runner: StudyRunner, seed: int) -> list[dict]:
     """NSGA-II (pymoo) over the varied inputs for the front objectives, constraints as
-    inequality constraints; returns the rows of the non-dominated feasible variants."""
+    inequality constraints; returns the rows of the non-dominated feasible variants among all
+    the designs flown (sweep, optimiser and NSGA-II)."""
     from pymoo.algorithms.moo.nsga2 import NSGA2
     from pymoo.core.problem import Problem as MooProblem
     from pymoo.optimize import minimize
@@ -485,12 +486,20 @@ def pareto_front(study: LoadedStudy, runner: StudyRunner, seed: int) -> list[dic
     if res.X is None:
         return []
     X = np.atleast_2d(res.X)
-    rows = runner.run([(*base, *decode(x)) for x in X], "front")
-    seen, front = set(), []
-    for r in rows:
-        if r and r.get("feasible") and r["variant_id"] not in seen:
-            seen.add(r["variant_id"])
-            front.append(r)
+    runner.run([(*base, *decode(x)) for x in X], "front")
+    # the front of every design flown (sweep, optimiser and NSGA-II alike), not only NSGA-II's
+    pool = [
+        r
+        for r in runner.store.rows.values()
+        if r.get("feasible") and r.get("stage") in ("sweep", "optimise", "front")
+    ]
+    F = np.array([[_sign(s) * _out(r, n) for n, s in objectives] for r in pool], dtype=float)
+    front = [
+        r
+        for i, r in enumerate(pool)
+        if np.all(np.isfinite(F[i]))
+        and not np.any(np.all(F <= F[i], axis=1) & np.any(F < F[i], axis=1))
+    ]
     front.sort(key=lambda r: _sign(objectives[0][1]) * _out(r, objectives[0][0]))
     return front
 
