@@ -11,6 +11,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
+from sim.analysis.study import LoadedStudy, StudyResult, load_study, read_table, run_study
+from sim.analysis.study.figures import study_figures
 from sim.engine.mission import RunObserver, RunResult
 from sim.engine.plant import build_plant
 from sim.engine.spec import Water
@@ -21,17 +23,23 @@ from sim.io.log import incomplete_path_for, read_log
 
 __all__ = [
     "InputError",
+    "LoadedStudy",
     "RunOutcome",
+    "StudyResult",
     "build_plant",
     "check_file",
     "default_log_path",
     "free_log_path",
     "load_scenario",
+    "load_study",
     "load_vessel",
     "operating_table",
     "plant_for",
     "read_log",
+    "read_study_table",
     "run_scenario",
+    "run_study",
+    "study_figures",
 ]
 
 
@@ -134,3 +142,13 @@ def operating_table(
     for s in speeds_m_s:
         out.append(steady_at_speed(plant, float(s), soc=soc))
     return out
+
+
+def read_study_table(path: str | Path) -> list[dict]:
+    """The rows of a study's results table (one dict of columns per variant; see
+    :mod:`sim.analysis.study.store` for the layout, which pandas and xarray read directly)."""
+    return read_table(path)
+
+
+# run_study(path, out=..., jobs=..., cluster=..., csv=...) -> StudyResult, load_study(path) and
+# study_figures(result) -> {name: Figure} are re-exported from sim.analysis.study.

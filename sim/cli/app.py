@@ -10,10 +10,20 @@ import signal
 import traceback
 
 from sim import __version__
-from sim.cli import check, range_curve, reach, report, run, steady, thruster_curves, versus
+from sim.cli import (
+    check,
+    range_curve,
+    reach,
+    report,
+    run,
+    steady,
+    study,
+    thruster_curves,
+    versus,
+)
 from sim.cli.core import EXIT_INPUT, EXIT_OK, Terminated, console, quiet_stdout, report_error
 
-COMMANDS = (run, check, steady, versus, reach, range_curve, thruster_curves, report)
+COMMANDS = (run, check, steady, versus, study, reach, range_curve, thruster_curves, report)
 """The command modules, in the order ``brinebolt --help`` lists them; each has ``register(sub)``
 and a ``cmd_<name>(args)`` that returns the exit code."""
 

@@ -33,6 +33,7 @@ from sim.io.feasibility import feasibility_problems
 from sim.io.problems import MISSING, InputError, Problem
 from sim.io.schema import Conditions, ScenarioFile, VesselFile
 from sim.io.seam import mission_spec, vessel_spec, water
+from sim.io.study_schema import StudyFile
 
 __all__ = [
     "CHECKERS",
@@ -45,6 +46,7 @@ __all__ = [
     "file_kind",
     "kind_of",
     "load_scenario",
+    "load_study_file",
     "load_vessel",
     "max_file_bytes",
     "read_bytes_capped",
@@ -79,6 +81,17 @@ FILE_KINDS: dict[str, tuple[str, ...]] = {
         "schedule",
     ),
     "vessel": ("vessel", "hull", "thruster", "battery", "drive", "hotel", "extends"),
+    "study": (
+        "study",
+        "vary",
+        "sampling",
+        "constraint",
+        "optimise",
+        "uncertain",
+        "uncertainty",
+        "sensitivity",
+        "mass",
+    ),
 }
 """The kinds of input file and the top-level keys that mark each (its tables). A file is of the
 kind whose marks it carries most of; the first listed wins a tie (a variants file also has a
@@ -90,6 +103,7 @@ KIND_USE: dict[str, str] = {
     "[scenario] vessel = ...",
     "scenario": "fly it with `brinebolt run`",
     "variants": "fly it with `brinebolt versus`",
+    "study": "run it with `brinebolt study`",
 }
 """What each kind of file is for (in messages that refuse a file of the wrong kind)."""
 
@@ -724,9 +738,43 @@ def _check_vessel(path: Path) -> list[Problem]:
     return load_vessel(path).warnings
 
 
+def load_study_file(path: str | Path) -> tuple[StudyFile, Path, Path | None]:
+    """Read and validate a study file (:mod:`sim.io.study_schema`): the validated file, the
+    path of its scenario and of its vessel (None: the scenario's). Raises InputError listing
+    every problem, the files it names included."""
+    path = Path(path)
+    data, _text = read_toml(path)
+    kind = kind_of(data)
+    if kind != "study":
+        raise InputError([Problem(str(path), "", MISSING, f"{_wrong_kind(kind, 'study')}")])
+    try:
+        spec = StudyFile.model_validate(data)
+    except ValidationError as exc:
+        raise InputError(_problems_from(exc, StudyFile, data, str(path))) from None
+    problems = []
+    scenario = path.parent / spec.study.scenario
+    vessel = None if spec.study.vessel is None else path.parent / spec.study.vessel
+    for key, value, p in (
+        ("study.scenario", spec.study.scenario, scenario),
+        ("study.vessel", spec.study.vessel, vessel),
+    ):
+        if p is not None and not _exists(p):
+            problems.append(Problem(str(path), key, value, f"file not found (looked for {p})"))
+    if problems:
+        raise InputError(problems)
+    return spec, scenario, vessel
+
+
+def _check_study(path: Path) -> list[Problem]:
+    _spec, scenario, vessel = load_study_file(path)
+    loaded = load_scenario(scenario, vessel_path=vessel)
+    return loaded.warnings + loaded.vessel.warnings
+
+
 CHECKERS: dict[str, Callable[[Path], list[Problem]]] = {
     "vessel": _check_vessel,
     "scenario": _check_scenario,
+    "study": _check_study,
 }
 """How :func:`check_file` checks each kind of file it knows by itself: a function of the path
 that returns the warnings and raises InputError on errors. Kinds that live in higher layers

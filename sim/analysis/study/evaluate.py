@@ -1,0 +1,294 @@
+"""Fly one variant of a study: apply its settings to the vessel and scenario data, let the mass
+model set the vessel's mass (and a displacement hull's draft), fly it and turn the run into the
+study's outputs. Runs in worker processes (or on Dask workers): everything here is a
+module-level function of plain, picklable data.
+"""
+
+from __future__ import annotations
+
+import copy
+import math
+import tempfile
+import time
+import traceback
+from dataclasses import dataclass
+from functools import lru_cache
+from pathlib import Path
+
+from sim.analysis.study.design import is_vessel_key
+from sim.analysis.variants import apply_settings, render_toml, variant_vessel_data
+from sim.engine.plant import water_properties
+from sim.engine.spec import DisplacementHullSpec, SubmergedHullSpec, VesselSpec
+from sim.flight import fly
+from sim.io.files import LoadedScenario, load_scenario, read_toml
+from sim.physics import mass as pm
+from sim.physics.battery import CELL_SETS
+from sim.physics.magnets import NDFEB_GRADES
+
+__all__ = ["Job", "PartsMass", "derived_outputs", "evaluate", "parts_mass", "split_settings"]
+
+
+@dataclass(frozen=True)
+class Job:
+    """One variant to fly (plain data, picklable).
+
+    Attributes
+    ----------
+    variant_id : identity hash of the settings
+    scenario_path : base scenario file
+    vessel_path : vessel file flown instead of the scenario's (None: the scenario's)
+    settings : (dotted key, value) pairs, vessel and scenario keys alike, applied in order
+    sample_s : sampling interval [s] overriding the scenario's (None: the scenario's)
+    mass : the study's [mass] table as a dict (None: no mass model)
+    """
+
+    variant_id: str
+    scenario_path: str
+    vessel_path: str | None
+    settings: tuple[tuple[str, object], ...]
+    sample_s: float | None = None
+    mass: dict | None = None
+
+
+def split_settings(settings):
+    """(vessel settings, scenario settings) of a variant, by the first part of each key."""
+    v = tuple((k, x) for k, x in settings if is_vessel_key(k))
+    s = tuple((k, x) for k, x in settings if not is_vessel_key(k))
+    return v, s
+
+
+@lru_cache(maxsize=8)
+def _vessel_data(path: str) -> dict:
+    return variant_vessel_data(path)
+
+
+@lru_cache(maxsize=8)
+def _scenario_data(path: str) -> dict:
+    return read_toml(Path(path))[0]
+
+
+def vessel_path_of(scenario_path: str, vessel_path: str | None) -> str:
+    """The vessel file a variant starts from."""
+    if vessel_path is not None:
+        return str(vessel_path)
+    data = _scenario_data(str(scenario_path))
+    return str(Path(scenario_path).parent / data["scenario"]["vessel"])
+
+
+def load_variant(
+    scenario_path: str, vessel_path: str | None, settings, extra_vessel: tuple = ()
+) -> LoadedScenario:
+    """The variant as a validated scenario with its vessel (InputError on a bad value)."""
+    vpath = vessel_path_of(scenario_path, vessel_path)
+    vset, sset = split_settings(settings)
+    vdata = apply_settings(_vessel_data(vpath), (*vset, *extra_vessel), f"variant ({vpath})")
+    if not sset:
+        return load_scenario(scenario_path, vessel_overrides=vdata, vessel_path=vpath)
+    sdata = apply_settings(_scenario_data(str(scenario_path)), sset, f"variant ({scenario_path})")
+    sdata = copy.deepcopy(sdata)
+    sdata.setdefault("scenario", {})["vessel"] = str(Path(vpath).resolve())
+    with tempfile.TemporaryDirectory(prefix="brinebolt-study-") as tmp:
+        p = Path(tmp) / Path(scenario_path).name
+        p.write_text(render_toml(sdata), encoding="utf-8")
+        return load_scenario(p, vessel_overrides=vdata, vessel_path=vpath)
+
+
+# ------------------------------------------------------------------ mass model
+
+
+@dataclass(frozen=True)
+class PartsMass:
+    """Mass of the parts the mass model sizes.
+
+    Attributes
+    ----------
+    magnets_kg : magnets with yokes (permanent) or cryostats (superconducting), all units [kg]
+    ducts_kg : duct walls and electrodes, all units [kg]
+    pack_kg : battery pack [kg]
+    outboard_volume_m3 : solid volume of the thrusters (outside the pressure hull) [m³]
+    cryocooler_w : electrical input of the cryocoolers of superconducting magnets [W]
+    """
+
+    magnets_kg: float
+    ducts_kg: float
+    pack_kg: float
+    outboard_volume_m3: float
+    cryocooler_w: float
+
+    @property
+    def total_kg(self) -> float:
+        return self.magnets_kg + self.ducts_kg + self.pack_kg
+
+
+def parts_mass(vessel: VesselSpec, mass: dict) -> PartsMass:
+    """The parts' mass of a vessel (engine spec, SI) under the study's [mass] settings."""
+    magnets = ducts = volume = cryo = 0.0
+    for th in vessel.thrusters:
+        n = th.units
+        d = pm.duct_mass(
+            th.gap_m,
+            th.pole_height_m,
+            th.active_length_m,
+            th.channels,
+            wall_thickness_m=mass["duct_wall"],
+            electrode_thickness_m=mass["electrode_plate"],
+        )
+        ducts += n * d.mass_kg
+        volume += n * d.volume_m3
+        mb = th.magnet_blocks
+        if th.magnet == "permanent" and mb is not None:
+            v = 2.0 * th.channels * mb.width_m * mb.length_m * mb.thickness_m
+            magnets += n * v * pm.NDFEB_DENSITY_KG_M3
+            volume += n * v
+        elif th.magnet == "permanent" and th.field_t:
+            grade = NDFEB_GRADES[(th.magnet_grade or mass["grade"]).upper()]
+            size = pm.yoke_magnet_mass if mass["magnets"] == "yoke" else pm.blocks_magnet_mass
+            m = size(
+                th.field_t,
+                grade.br_tesla,
+                th.gap_m,
+                th.pole_height_m,
+                th.active_length_m,
+                th.channels,
+            )
+            magnets += n * m.mass_kg
+            volume += n * m.volume_m3
+        elif th.magnet == "superconducting" and th.field_t:
+            m = pm.superconducting_magnet_mass(
+                th.field_t, th.channels * th.gap_m, th.pole_height_m, th.active_length_m
+            )
+            magnets += n * m.mass_kg
+            volume += n * m.volume_m3
+            cryo += n * m.cryocooler_power_w
+    b = vessel.battery
+    pack = pm.pack_mass_kg(
+        b.series, b.parallel, CELL_SETS[b.cell].mass_kg, mass["packaging_factor"]
+    )
+    return PartsMass(magnets, ducts, pack, volume, cryo)
+
+
+@lru_cache(maxsize=8)
+def _base_parts(scenario_path: str, vessel_path: str | None, mass_items: tuple) -> PartsMass:
+    """Parts of the vessel file as written (the design whose mass the file gives)."""
+    loaded = load_variant(scenario_path, vessel_path, ())
+    return parts_mass(loaded.vessel.vessel_spec, dict(mass_items))
+
+
+def apply_mass_model(job: Job, loaded: LoadedScenario) -> tuple[LoadedScenario, dict]:
+    """Reload the variant with the mass the model gives it; returns it and the mass outputs."""
+    mass = job.mass or {}
+    base = _base_parts(job.scenario_path, job.vessel_path, tuple(sorted(mass.items())))
+    spec = loaded.vessel.vessel_spec
+    parts = parts_mass(spec, mass)
+    delta = parts.total_kg - base.total_kg
+    rho = water_properties(loaded.water).rho_kg_m3
+    hull = spec.hull
+    extra: tuple = ()
+    # the vessel mass written in the variant's own file (a setting of vessel.mass wins)
+    m0 = spec.mass_kg
+    if isinstance(hull, SubmergedHullSpec):
+        trim = pm.submerged_body_trim(
+            m0,
+            delta,
+            parts.outboard_volume_m3 - base.outboard_volume_m3,
+            mass["trim_ballast"],
+            rho,
+        )
+    elif isinstance(hull, DisplacementHullSpec):
+        limit = mass.get("max_draft_change")
+        trim = pm.displacement_hull_trim(
+            m0,
+            delta,
+            hull.draft_m,
+            hull.displaced_volume_m3,
+            rho,
+            math.inf if limit is None else limit,
+        )
+        if trim.in_trim:
+            extra = (
+                ("hull.draft", f"{trim.draft_m:.10g} m"),
+                ("hull.displaced_volume", f"{trim.displaced_volume_m3:.10g} m^3"),
+            )
+    else:  # a tabulated hull: resistance does not follow the mass
+        trim = pm.Trim(m0 + delta, math.nan, math.nan, math.nan, True)
+    extra = (("vessel.mass", f"{trim.mass_kg:.10g} kg"), *extra)
+    out = {
+        "parts_mass_kg": parts.total_kg,
+        "delta_mass_kg": delta,
+        "total_mass_kg": trim.mass_kg,
+        "magnet_mass_kg": parts.magnets_kg,
+        "pack_mass_kg": parts.pack_kg,
+        "trim_margin_kg": trim.margin_kg,
+        "in_trim": 1.0 if trim.in_trim else 0.0,
+    }
+    return load_variant(job.scenario_path, job.vessel_path, job.settings, extra), out
+
+
+# ------------------------------------------------------------------ outputs
+
+
+def derived_outputs(summary: dict, vessel: VesselSpec) -> dict:
+    """Outputs worked out from a run summary (see :data:`sim.io.study_schema.DERIVED_OUTPUTS`)."""
+    hours = summary.get("duration_s", math.nan) / 3600.0
+    per_h = (lambda x: x / hours) if hours > 0 else (lambda x: math.nan)
+    h2 = summary.get("h2_total_mol", math.nan)
+    cl2 = summary.get("cl2_total_mol", math.nan)
+    o2 = summary.get("o2_total_mol", math.nan)
+    limits = []
+    for th in vessel.thrusters:
+        grade = th.magnet_grade or (th.magnet_blocks.grade if th.magnet_blocks else None)
+        if th.magnet == "permanent" and grade:
+            limits.append(NDFEB_GRADES[grade.upper()].max_working_temp_c)
+    peak = summary.get("peak_magnet_temperature_c", math.nan)
+    return {
+        "range_m": summary.get("distance_m", math.nan),
+        "endurance_s": summary.get("duration_s", math.nan),
+        "h2_mol_per_h": per_h(h2),
+        "cl2_mol_per_h": per_h(cl2),
+        "gas_mol_per_h": per_h(h2 + cl2 + o2),
+        "magnet_margin_k": (min(limits) - peak) if limits else math.nan,
+    }
+
+
+def evaluate(job: Job) -> dict:
+    """Fly one variant and return its row: ``variant_id``, ``ok``, ``error``,
+    ``ending_reason``, ``ending_kind``, ``wall_time_s`` and ``outputs`` (every summary figure
+    and derived output, floats). A failure of any kind is caught and returned as a row with
+    its error (never raised), so one bad variant cannot end a study."""
+    t0 = time.perf_counter()
+    row = {
+        "variant_id": job.variant_id,
+        "ok": False,
+        "error": "",
+        "ending_reason": "",
+        "ending_kind": "",
+        "outputs": {},
+    }
+    try:
+        loaded = load_variant(job.scenario_path, job.vessel_path, job.settings)
+        mass_out: dict = {}
+        if job.mass is not None:
+            loaded, mass_out = apply_mass_model(job, loaded)
+        result = fly(loaded, sample_s=job.sample_s).result
+        summary = {k: v for k, v in result.summary.items() if k != "ending_reason"}
+        outputs = {k: float(v) for k, v in summary.items()}
+        outputs.update(derived_outputs(summary, loaded.vessel.vessel_spec))
+        outputs.update(mass_out)
+        row.update(
+            ok=True,
+            ending_reason=str(result.ending_reason),
+            ending_kind=str(result.ending_kind),
+            outputs=outputs,
+        )
+    except KeyboardInterrupt:
+        raise
+    except Exception as exc:  # a failed variant is a row with its error
+        text = str(exc)
+        problems = getattr(exc, "problems", None)
+        if problems:
+            text = "; ".join(f"{p.key} = {p.value!r}: {p.message}" for p in problems)
+        row["error"] = f"{type(exc).__name__}: {text}" or "".join(
+            traceback.format_exception_only(exc)
+        )
+    row["wall_time_s"] = time.perf_counter() - t0
+    return row
