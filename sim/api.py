@@ -10,9 +10,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from sim.analysis.study import LoadedStudy, StudyResult, load_study, read_table, run_study
-from sim.analysis.study.figures import study_figures
 from sim.engine.mission import RunObserver, RunResult
 from sim.engine.plant import build_plant
 from sim.engine.spec import Water
@@ -20,6 +19,10 @@ from sim.engine.steady import SteadyPoint, steady_at_speed
 from sim.flight import fly, plant_for
 from sim.io.files import InputError, LoadedScenario, check_file, load_scenario, load_vessel
 from sim.io.log import incomplete_path_for, read_log
+
+if TYPE_CHECKING:  # imported on first use by __getattr__ below (start-up time)
+    from sim.analysis.study import LoadedStudy, StudyResult, load_study, run_study
+    from sim.analysis.study.figures import study_figures
 
 __all__ = [
     "InputError",
@@ -147,8 +150,27 @@ def operating_table(
 def read_study_table(path: str | Path) -> list[dict]:
     """The rows of a study's results table (one dict of columns per variant; see
     :mod:`sim.analysis.study.store` for the layout, which pandas and xarray read directly)."""
+    from sim.analysis.study import read_table  # lazy: scipy.stats/pymoo cost ≈1 s at start-up
+
     return read_table(path)
 
 
-# run_study(path, out=..., jobs=..., cluster=..., csv=...) -> StudyResult, load_study(path) and
-# study_figures(result) -> {name: Figure} are re-exported from sim.analysis.study.
+_STUDY_NAMES = {
+    "LoadedStudy": "sim.analysis.study",
+    "StudyResult": "sim.analysis.study",
+    "load_study": "sim.analysis.study",
+    "run_study": "sim.analysis.study",
+    "study_figures": "sim.analysis.study.figures",
+}
+
+
+def __getattr__(name: str):
+    """run_study(path, out=..., jobs=..., cluster=..., csv=...) -> StudyResult, load_study(path)
+    and study_figures(result) -> {name: Figure}, re-exported from :mod:`sim.analysis.study` on
+    first use, so that ``import sim.api`` (every run) does not pay for SciPy's statistics and
+    the optimisers."""
+    if name in _STUDY_NAMES:
+        import importlib
+
+        return getattr(importlib.import_module(_STUDY_NAMES[name]), name)
+    raise AttributeError(f"module 'sim.api' has no attribute {name!r}")

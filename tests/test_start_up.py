@@ -160,3 +160,18 @@ def test_checking_a_scenario_needs_neither_scipy_nor_pint():
 def test_help_imports_nothing_heavy():
     mods = _modules_after("from sim.cli.app import build_parser\nbuild_parser().format_help()")
     assert not [m for m in mods if m.split(".")[0] in (*HEAVY, "numpy", "pydantic")]
+
+
+def test_importing_the_api_does_not_load_the_study_machinery():
+    """`brinebolt run` imports sim.api: the design-study code (SciPy statistics, optimisers)
+    loads only when a study is used (it cost ≈1 s of start-up when imported eagerly)."""
+    import subprocess
+    import sys
+
+    code = (
+        "import sys, sim.api\n"
+        "print(','.join(m for m in ('sim.analysis.study', 'scipy.stats', 'pymoo') "
+        "if m in sys.modules))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == ""
