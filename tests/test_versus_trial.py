@@ -246,3 +246,24 @@ def test_ctrl_c_during_parallel_versus_stops_cleanly_and_names_the_partial_logs(
         assert str(p) in " ".join(err.split()), err
         log = read_log(p)
         assert not log.complete and log.series["time_s"].size > 1
+
+
+def test_versus_refuses_pipes_huge_grids_and_huge_sampling_before_flying(tmp_path, capsys):
+    """Field-trial findings: `versus` reading a named pipe hung, a 10⁴-variant --set grid and a
+    tiny --sample exhausted memory. Each is refused with exit 2 and one clear message."""
+    root = ROOT
+    fifo = tmp_path / "pipe.toml"
+    os.mkfifo(fifo)
+    assert main(["versus", str(fifo), "--set", "thruster.0.gap=5 cm,6 cm"]) == 2
+    err = capsys.readouterr().err
+    assert "named pipe" in err and err.count("named pipe") == 1  # said once, not per variant
+
+    scen = str(root / "scenarios" / "glasswort-survey.toml")
+    gaps = ",".join(f"{g} mm" for g in range(30, 330))
+    assert main(["versus", scen, "--set", f"thruster.0.gap={gaps}"]) == 2
+    err = capsys.readouterr().err
+    assert "versus --set asks for 300 points" in err and "BRINEBOLT_MAX_GRID" in err
+
+    assert main(["versus", scen, "--set", "thruster.0.gap=5 cm,6 cm", "--sample", "1 ms"]) == 2
+    err = capsys.readouterr().err
+    assert "logged samples" in err and err.count("logged samples (3 h") == 1

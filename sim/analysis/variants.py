@@ -40,7 +40,6 @@ import re
 import signal
 import threading
 import time
-import tomllib
 import unicodedata
 from collections.abc import Callable, Sequence
 from concurrent.futures import ProcessPoolExecutor, as_completed, wait
@@ -51,7 +50,15 @@ import numpy as np
 
 from sim.engine.mission import RunObserver
 from sim.flight import fly
-from sim.io.files import InputError, LoadedScenario, Problem, _load_vessel_data, load_scenario
+from sim.io import budget
+from sim.io.files import (
+    InputError,
+    LoadedScenario,
+    Problem,
+    _load_vessel_data,
+    load_scenario,
+    read_toml,
+)
 from sim.io.problems import MISSING
 
 __all__ = [
@@ -276,12 +283,7 @@ def read_variants_file(path: str | Path) -> VariantsFile:
     """
     path = Path(path)
     src = str(path)
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError([Problem(src, "", "", "file not found")]) from None
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError) as exc:
-        raise InputError([Problem(src, "", "", f"cannot read it as TOML: {exc}")]) from None
+    data = read_toml(path)[0]  # size cap, no pipes or devices, every TOML fault an InputError
     problems: list[Problem] = []
     for k in data:
         if k not in ("title", "scenario", "variant"):
@@ -810,6 +812,7 @@ def prepare_variants(
         try:
             data = apply_settings(raw, v.settings, str(vpath))
             loaded = load_scenario(scenario, vessel_overrides=data, vessel_path=vpath)
+            budget.check_scenario(loaded, sample_s)  # the interval asked for, held to the limits
         except InputError as exc:
             problems.extend(_restate(exc.problems, v, raw))
             continue
@@ -817,8 +820,8 @@ def prepare_variants(
         for w in _restate(loaded.warnings + loaded.vessel.warnings, v, raw, False):
             warnings.append((v.label, w))
         ready.append((v, vpath, data))
-    if problems:
-        raise InputError(problems)
+    if problems:  # a fault of the shared scenario is said once, not once per variant
+        raise InputError(list(dict.fromkeys(problems)))
 
     stems = file_stems(labels)
     tasks, log_paths, vessel_files = [], [], []

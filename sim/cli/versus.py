@@ -4,7 +4,6 @@
 from __future__ import annotations
 
 import os
-import tomllib
 from pathlib import Path
 
 from sim.cli import options
@@ -85,13 +84,16 @@ def register(sub) -> None:
 def cmd_versus(args) -> int:
     from sim.analysis import variants as va
     from sim.analysis.tables import comparison_data
+    from sim.io import budget
+    from sim.io.files import read_toml
+    from sim.io.problems import InputError
 
     out = TableOutput(args, "versus")
     con = out.messages
     path = Path(args.file)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+        data = read_toml(path)[0]  # size cap; no named pipes or devices (they would hang)
+    except InputError:
         data = {}  # the loader below reports what is wrong with it
     title = ""
     if "variant" in data:
@@ -118,6 +120,8 @@ def cmd_versus(args) -> int:
         except ValueError as exc:
             raise OptionError(str(exc)) from None
         scenario, stem = path, f"{path.stem}-versus"
+    if why := budget.grid_problem("versus --set", len(variants)):
+        raise OptionError(why)
     if args.jobs is not None and args.jobs < 1:
         raise OptionError(f"option --jobs = {args.jobs}: allowed: 1 or more")
     sample = options.parse_time(args.sample, "--sample")
