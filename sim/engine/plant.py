@@ -9,7 +9,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from sim.engine.spec import (
+    CoilSpec,
     DisplacementHullSpec,
     HullSpec,
     SubmergedHullSpec,
@@ -19,7 +22,8 @@ from sim.engine.spec import (
     Water,
 )
 from sim.physics import battery as bat
-from sim.physics import electrochem, hull, magnet_gap, magnets
+from sim.physics import electrochem, electrodes, fields, hull, layouts, magnet_gap, magnets
+from sim.physics.errors import ModelRangeError
 from sim.physics.seawater import WaterState, water_state
 from sim.physics.thruster import DuctThruster
 
@@ -55,6 +59,18 @@ class ThrusterUnit:
     """Thrust deduction fraction t [-]: the hull feels T·(1 − t)."""
     overpotential_v: float = 0.0
     """Overpotential part of the electrode drop [V] (heat at the electrode surfaces)."""
+    layout: str = "duct"
+    """Layout the equivalent duct stands for ('duct', 'stack', 'annular', 'ring-of-tubes',
+    'helical'); ``duct`` is always the solver's (equivalent) straight duct."""
+    coil_power_w: float = 0.0
+    """Constant electrical load of one unit's magnet [W]: a resistive coil's I²R or a
+    superconducting coil's cryocooler input (0 for permanent magnets and given fields)."""
+    sacrificial_anode: str | None = None
+    """Key of :data:`sim.physics.electrodes.SACRIFICIAL_ANODES`; None: gas-evolving anode."""
+    anode_mass_kg: float | None = None
+    """Sacrificial anode metal of one unit when new [kg]; None: not tracked."""
+    anode_utilisation: float = 0.85
+    """Usable share of anode_mass_kg before the anode counts as spent [-]."""
 
     @property
     def series_factor(self) -> int:
@@ -87,6 +103,8 @@ class Plant:
     [V]."""
     hotel_w: float
     cryocooler_w: float
+    """Constant load always drawn on top of the hotel load [W]: the vessel's hotel.cryocooler
+    plus :attr:`coil_power_w` (so the model needs no separate term for coils)."""
     overvoltage_margin_v: float = 0.05
     """The drive folds back regenerated power to keep every cell this far below its maximum
     voltage [V]."""
@@ -94,6 +112,9 @@ class Plant:
     """Speed at the upper Froude number of the hull model's data [m/s] (inf: no such bound)."""
     hull_max_froude: float = math.inf
     """That Froude number [-]."""
+    coil_power_w: float = 0.0
+    """Part of :attr:`cryocooler_w` drawn by thruster coils [W]: Σ units × (resistive I²R or
+    superconducting cryocooler input) of every design."""
 
     @property
     def total_mass_kg(self) -> float:
@@ -165,36 +186,43 @@ def _added_mass(vessel: VesselSpec) -> float:
     return 0.05 * vessel.mass_kg  # surface ship surge added mass ≈ 5 % (common practice)
 
 
-def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
-    """The physics of one thruster design (duct, electrodes, magnet).
+DESIGN_CURRENT_DENSITY_A_M2 = 1000.0
+"""Cathode current density [A/m²] at which a sacrificial pair's hydrogen overpotential is taken
+when the drive's current is not known (:func:`thruster_unit` without ``design_current_a``)."""
 
-    Raises :class:`~sim.physics.errors.ModelRangeError` when the duct model rejects it."""
-    pair = electrochem.ElectrodePair(
-        anode=spec.anode,
-        cathode=spec.cathode,
-        overpotential_v=spec.overpotential_v,
-        chlorine_fraction=spec.chlorine_fraction,
-    )
-    drop = electrochem.electrode_drop_v(pair)
-    b_ref = spec.field_t if spec.magnet_blocks is None else block_field_t(spec)
-    duct = DuctThruster(
-        gap_m=spec.gap_m,
-        height_m=spec.pole_height_m,
-        length_m=spec.active_length_m,
-        n_channels=spec.channels,
-        b_tesla=b_ref,
+_CATHODE_KINETICS = {
+    k.galvanic_key: k.name for k in electrodes.ELECTRODE_KINETICS.values() if k.role == "cathode"
+}
+
+
+def thruster_unit(spec: ThrusterSpec, design_current_a: float | None = None) -> ThrusterUnit:
+    """The physics of one thruster design (duct or layout, electrodes, magnet, coil load).
+
+    Parameters
+    ----------
+    spec : ThrusterSpec
+    design_current_a : float, optional
+        Current of one unit at which a sacrificial pair's cathode overpotential is taken [A]
+        (the drive's max_current; None: :data:`DESIGN_CURRENT_DENSITY_A_M2` on the cathode).
+
+    Raises :class:`~sim.physics.errors.ModelRangeError` when the duct or layout model rejects
+    it."""
+    drop, offset, f_cl, eta = _electrode_terms(spec, design_current_a)
+    b_hw = hardware_field_t(spec)
+    opts = dict(
         roughness_m=spec.wall_roughness_m,
         k_inlet=spec.inlet_loss,
         k_nozzle=spec.nozzle_loss,
         nozzle_area_ratio=spec.nozzle_area_ratio,
         jet_model=spec.jet,
         electrode_drop_v=drop,
-        chlorine_fraction=spec.chlorine_fraction,
-        galvanic_offset_v=pair.galvanic_offset_v,
+        chlorine_fraction=f_cl,
+        galvanic_offset_v=offset,
         gas_model=spec.gas_model,
         gas_slip_ratio=spec.gas_slip_ratio,
         end_effects=spec.end_effects,
     )
+    duct = layout_duct(spec, b_hw, opts)
     alpha, tmax = 0.0, math.inf
     if spec.magnet == "permanent":
         alpha = magnets.ALPHA_BR_NDFEB_PER_K
@@ -203,15 +231,16 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
             grade = magnets.NDFEB_GRADES[grade_name.upper()]
             alpha = grade.alpha_br_per_k
             tmax = grade.max_working_temp_c
+    sacrificial = spec.anode if spec.anode in electrodes.SACRIFICIAL_ANODES else None
     return ThrusterUnit(
         name=spec.name,
         duct=duct,
         units=spec.units,
         magnet_kind=spec.magnet,
-        b_ref_tesla=b_ref,
+        b_ref_tesla=duct.b_tesla,
         alpha_br_per_k=alpha,
         t_ref_c=(
-            spec.field_reference_temperature_c if spec.magnet_blocks is None else magnets.T_REF_C
+            spec.field_reference_temperature_c if spec.field_t is not None else magnets.T_REF_C
         ),
         magnet_max_c=tmax,
         magnet_heat_capacity_j_k=spec.magnet_heat_capacity_j_k,
@@ -219,15 +248,301 @@ def thruster_unit(spec: ThrusterSpec) -> ThrusterUnit:
         channel_wiring=spec.channel_wiring,
         wake_fraction=spec.wake_fraction,
         thrust_deduction=spec.thrust_deduction,
-        overpotential_v=spec.overpotential_v,
+        overpotential_v=eta,
+        layout=spec.layout,
+        coil_power_w=0.0 if spec.coil is None else coil_power_w(spec.coil, b_hw, spec),
+        sacrificial_anode=sacrificial,
+        anode_mass_kg=spec.anode_mass_kg if sacrificial else None,
+        anode_utilisation=spec.anode_utilisation,
+    )
+
+
+def _electrode_terms(spec: ThrusterSpec, design_current_a: float | None):
+    """(electrode drop [V], galvanic offset [V], chlorine fraction, overpotential [V]).
+
+    A sacrificial anode works against a hydrogen-evolving cathode as a galvanic cell
+    (:func:`sim.physics.electrodes.sacrificial_pair_drop_v`): its zero-current part
+    E_anode − E_H₂ is the fixed-sign galvanic offset, the cathode's Butler–Volmer overpotential at
+    the design current density the drop that opposes the current either way; no chlorine."""
+    if spec.anode not in electrodes.SACRIFICIAL_ANODES:
+        pair = electrochem.ElectrodePair(
+            anode=spec.anode,
+            cathode=spec.cathode,
+            overpotential_v=spec.overpotential_v,
+            chlorine_fraction=spec.chlorine_fraction,
+        )
+        return (
+            electrochem.electrode_drop_v(pair),
+            pair.galvanic_offset_v,
+            spec.chlorine_fraction,
+            spec.overpotential_v,
+        )
+    cathode = _CATHODE_KINETICS.get(spec.cathode)
+    if cathode is None:
+        from_ = ", ".join(sorted(_CATHODE_KINETICS))
+        raise ModelRangeError("cathode", spec.cathode, f"one of {from_}", "sacrificial anodes")
+    if design_current_a is None:
+        i_c = DESIGN_CURRENT_DENSITY_A_M2
+    else:
+        n_par = 1 if spec.channel_wiring == "series" else _channel_count(spec)
+        i_c = abs(design_current_a) / n_par / cathode_area_per_channel_m2(spec)
+    offset = electrodes.sacrificial_pair_drop_v(spec.anode, cathode, 0.0)
+    total = electrodes.sacrificial_pair_drop_v(spec.anode, cathode, i_c)
+    eta = max(total - offset, 0.0)
+    return eta, offset, 0.0, eta
+
+
+def _channel_count(spec: ThrusterSpec) -> int:
+    """Channels (stack) or tubes (ring) of one unit that share its current in parallel."""
+    return {"stack": spec.stack_count, "ring-of-tubes": spec.tube_count}.get(
+        spec.layout, spec.channels if spec.layout == "duct" else 1
+    )
+
+
+def cathode_area_per_channel_m2(spec: ThrusterSpec) -> float:
+    """Face area of one channel's cathode [m²]: pole_height × active_length for rectangular
+    channels; the inner ring electrode 2π·r1·L for annular and helical layouts (the smaller one,
+    so its current density is the higher)."""
+    if spec.layout in ("annular", "helical"):
+        return 2.0 * math.pi * spec.inner_radius_m * spec.active_length_m
+    return spec.pole_height_m * spec.active_length_m
+
+
+def layout_duct(spec: ThrusterSpec, b_tesla: float, opts: dict) -> DuctThruster:
+    """The straight duct (or :class:`~sim.physics.layouts.EquivalentDuct`) the solver runs for a
+    thruster design of any layout, with field ``b_tesla`` from :func:`hardware_field_t`.
+
+    Parameters
+    ----------
+    spec : ThrusterSpec
+    b_tesla : float
+        Field at the reference temperature [T] (layout's own meaning: gap field, azimuthal
+        field at the mean or ring radius, axial field).
+    opts : dict
+        Loss and electrode options of :class:`DuctThruster`
+        (:data:`sim.physics.layouts.DUCT_OPTION_NAMES`).
+
+    Returns
+    -------
+    DuctThruster
+        Exact equivalent (resistance, force per ampere, back EMF, area, volume; own hydraulic
+        diameter), see :mod:`sim.physics.layouts`.
+    """
+    lay = spec.layout
+    if lay == "duct":
+        return DuctThruster(
+            gap_m=spec.gap_m,
+            height_m=spec.pole_height_m,
+            length_m=spec.active_length_m,
+            n_channels=spec.channels,
+            b_tesla=b_tesla,
+            **opts,
+        )
+    if lay == "stack":
+        one = DuctThruster(
+            gap_m=spec.gap_m,
+            height_m=spec.pole_height_m,
+            length_m=spec.active_length_m,
+            n_channels=1,
+            b_tesla=b_tesla,
+            **opts,
+        )
+        return layouts.stack_as_duct(
+            layouts.ChannelStack(one, int(spec.stack_count), spec.channel_wiring)
+        )
+    if lay == "annular":
+        return layouts.annular_as_duct(
+            layouts.AnnularThruster(
+                inner_radius_m=spec.inner_radius_m,
+                outer_radius_m=spec.outer_radius_m,
+                length_m=spec.active_length_m,
+                b_tesla=b_tesla,
+                field_profile=spec.field_profile,
+                **opts,
+            )
+        )
+    if lay == "ring-of-tubes":
+        return layouts.ring_of_tubes_as_duct(
+            layouts.RingOfTubes(
+                n_tubes=int(spec.tube_count),
+                ring_radius_m=spec.ring_radius_m,
+                radial_gap_m=spec.gap_m,
+                height_m=spec.pole_height_m,
+                length_m=spec.active_length_m,
+                b_tesla=b_tesla,
+                field_profile=spec.field_profile,
+                **opts,
+            )
+        )
+    if lay == "helical":
+        helical_opts = {k: v for k, v in opts.items() if k != "nozzle_area_ratio"}
+        return layouts.helical_as_duct(
+            layouts.HelicalThruster(
+                inner_radius_m=spec.inner_radius_m,
+                outer_radius_m=spec.outer_radius_m,
+                axial_length_m=spec.active_length_m,
+                b_axial_tesla=b_tesla,
+                helix_angle_deg=spec.pitch_angle_deg,
+                n_vanes=int(spec.vanes),
+                stator_recovery=spec.stator_recovery,
+                **helical_opts,
+            )
+        )
+    raise ModelRangeError("layout", lay, "duct, stack, annular, ring-of-tubes or helical")
+
+
+def hardware_field_t(spec: ThrusterSpec) -> float:
+    """The field a thruster design's magnet gives at the reference temperature [T].
+
+    A given field as it is; magnet blocks by :func:`block_field_t`; a coil by
+    :func:`coil_field_t`. For annular and ring-of-tubes layouts the azimuthal field at the mean
+    (ring) radius, for a helical layout the mean axial field over the annulus."""
+    if spec.field_t is not None:
+        return spec.field_t
+    if spec.magnet_blocks is not None:
+        return block_field_t(spec)
+    return coil_field_t(spec.coil, spec)
+
+
+def _coil_width_m(spec: ThrusterSpec) -> float:
+    """Width across the channels that one coil pair spans [m] (all channels of the unit)."""
+    n = spec.stack_count if spec.layout == "stack" else spec.channels
+    return spec.gap_m * n
+
+
+def coil_field_t(coil: CoilSpec, spec: ThrusterSpec) -> float:
+    """Mean field of a thruster's coil over its channel or annulus [T].
+
+    racetrack-pair: ⟨B_z⟩ over the box active_length × pole_height × (gap × channels) between the
+    coils (:func:`sim.physics.fields.coil_pair_mean_field_t`); toroid: μ0·N·I/(2π·r) at the mean
+    radius (annular) or ring radius (:func:`sim.physics.fields.toroidal_field_t`); solenoid:
+    ⟨B_z⟩ over the annulus r1…r2 and the active length, area-weighted
+    (:func:`sim.physics.fields.solenoid_field_t`, Gauss–Legendre)."""
+    if coil.kind == "racetrack-pair":
+        return fields.coil_pair_mean_field_t(
+            coil.ampere_turns_a,
+            coil.straight_length_m,
+            coil.end_radius_m,
+            coil.separation_m,
+            _coil_width_m(spec),
+            spec.active_length_m,
+            spec.pole_height_m,
+        )
+    if coil.kind == "toroid":
+        r = (
+            spec.ring_radius_m
+            if spec.layout == "ring-of-tubes"
+            else 0.5 * (spec.inner_radius_m + spec.outer_radius_m)
+        )
+        return float(fields.toroidal_field_t(coil.ampere_turns_a, r))
+    if coil.kind == "solenoid":
+        return solenoid_annulus_mean_field_t(
+            coil.ampere_turns_a,
+            coil.radius_m,
+            coil.length_m,
+            spec.inner_radius_m,
+            spec.outer_radius_m,
+            spec.active_length_m,
+        )
+    raise ModelRangeError("coil.kind", coil.kind, "racetrack-pair, solenoid or toroid")
+
+
+def solenoid_annulus_mean_field_t(
+    ampere_turns_a: float,
+    radius_m: float,
+    length_m: float,
+    inner_radius_m: float,
+    outer_radius_m: float,
+    axial_length_m: float,
+    n_points: int = 8,
+) -> float:
+    """Area- and length-mean axial field of a finite solenoid over an annulus inside it [T].
+
+    ⟨B_z⟩ = ∫∫ B_z(ρ, z) ρ dρ dz / (½(r2² − r1²)·L), Gauss–Legendre in ρ and z, the annulus
+    centred on the solenoid (:func:`sim.physics.fields.solenoid_field_t`).
+
+    Raises :class:`~sim.physics.errors.ModelRangeError` when the winding does not enclose the
+    annulus."""
+    if not radius_m > outer_radius_m:
+        raise ModelRangeError(
+            "coil.radius", radius_m, f"> outer_radius = {outer_radius_m:g} m", "solenoid"
+        )
+    x, w = np.polynomial.legendre.leggauss(n_points)
+    r1, r2, half = inner_radius_m, outer_radius_m, 0.5 * axial_length_m
+    rho = 0.5 * (r2 - r1) * x + 0.5 * (r1 + r2)
+    z = half * x
+    rr, zz = np.meshgrid(rho, z, indexing="ij")
+    _, bz = fields.solenoid_field_t(ampere_turns_a, radius_m, length_m, rr, zz)
+    wts = np.outer(w * rho, w)
+    return float(np.sum(wts * bz) / np.sum(wts))
+
+
+def coil_bore_volume_m3(coil: CoilSpec, spec: ThrusterSpec) -> float:
+    """Volume the coil's field fills [m³], for its stored energy and cold mass: the box between a
+    racetrack pair, the solenoid bore, or the annulus (ring) a toroid links."""
+    if coil.kind == "racetrack-pair":
+        return (
+            (coil.straight_length_m + 2.0 * coil.end_radius_m)
+            * 2.0
+            * coil.end_radius_m
+            * coil.separation_m
+        )
+    if coil.kind == "solenoid":
+        return math.pi * coil.radius_m**2 * coil.length_m
+    if spec.layout == "ring-of-tubes":
+        return 2.0 * math.pi * spec.ring_radius_m * spec.gap_m * spec.active_length_m
+    return math.pi * (spec.outer_radius_m**2 - spec.inner_radius_m**2) * spec.active_length_m
+
+
+def coil_power_w(coil: CoilSpec, b_t: float, spec: ThrusterSpec) -> float:
+    """Constant electrical load of one unit's coil [W].
+
+    Resistive: I²R (:func:`sim.physics.fields.coil_joule_w`) or V·I. NbTi: the cryocooler input
+    of :func:`sim.physics.fields.superconducting_cryo_load` at the coil's field and bore volume
+    (an order-of-magnitude estimate; leads carry the current unless persistent)."""
+    if coil.conductor == "nbti":
+        load = fields.superconducting_cryo_load(
+            b_t,
+            coil_bore_volume_m3(coil, spec),
+            lead_current_a=0.0 if coil.persistent else coil.current_a,
+        )
+        return float(load.input_power_w)
+    if coil.resistance_ohm is not None:
+        return float(fields.coil_joule_w(coil.current_a, coil.resistance_ohm))
+    return coil.voltage_v * coil.current_a
+
+
+def coil_margin(coil: CoilSpec) -> fields.LoadLineMargin | None:
+    """Where a superconducting coil sits on its load line (None for resistive coils).
+
+    Load line B = (peak_field / current)·I against the NbTi critical line at 4.2 K
+    (:func:`sim.physics.fields.load_line_margin`, design limit 80 % of the critical current)."""
+    if coil.conductor != "nbti":
+        return None
+    return fields.load_line_margin(
+        coil.current_a, coil.peak_field_t / coil.current_a, coil.superconductor_area_m2
     )
 
 
 def block_field_t(spec: ThrusterSpec) -> float:
-    """Volume-mean gap field of a thruster's magnet blocks over one channel at 20 °C [T]
-    (:func:`sim.physics.magnet_gap.facing_blocks_mean_field_t`, the grade's nominal
-    remanence)."""
+    """Volume-mean gap field of a thruster's magnet blocks over one channel at 20 °C [T].
+
+    No yoke: :func:`sim.physics.magnet_gap.facing_blocks_mean_field_t` (exact superposition);
+    yoke: :func:`sim.physics.fields.facing_pair_field` (magnetic-circuit estimate); the grade's
+    nominal remanence either way."""
     mb = spec.magnet_blocks
+    if mb.yoke:
+        return fields.facing_pair_field(
+            mb.grade.upper(),
+            mb.width_m,
+            mb.length_m,
+            mb.thickness_m,
+            spec.pole_height_m,
+            spec.gap_m,
+            spec.active_length_m,
+            magnet_temp_c=magnets.T_REF_C,
+            yoke=True,
+        ).mean_b_t
     grade = magnets.NDFEB_GRADES[mb.grade.upper()]
     return magnet_gap.facing_blocks_mean_field_t(
         grade.br_tesla,
@@ -238,6 +553,16 @@ def block_field_t(spec: ThrusterSpec) -> float:
         spec.gap_m,
         spec.active_length_m,
     )
+
+
+def anode_spent_charge_c(unit: ThrusterUnit) -> float:
+    """Charge through one unit's sacrificial anodes at which they are spent [C] (inf when not
+    tracked): the usable mass anode_utilisation × anode_mass_kg at the anode's design capacity
+    (:func:`sim.physics.electrodes.consumed_mass_kg`, practical basis, is linear in charge)."""
+    if unit.sacrificial_anode is None or unit.anode_mass_kg is None:
+        return math.inf
+    per_c = electrodes.consumed_mass_kg(1.0, unit.sacrificial_anode)
+    return unit.anode_utilisation * unit.anode_mass_kg / per_c
 
 
 def housing_appendages(vessel: VesselSpec):
@@ -273,6 +598,8 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         extra_series_resistance_ohm=b.extra_resistance_ohm,
     )
     d = vessel.drive
+    units = tuple(thruster_unit(t, d.max_current_a) for t in vessel.thrusters)
+    coil_w = sum(u.coil_power_w * u.units for u in units)
     return Plant(
         name=vessel.name,
         water=state,
@@ -280,7 +607,7 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         resistance=model,
         mass_kg=vessel.mass_kg,
         added_mass_kg=_added_mass(vessel),
-        thrusters=tuple(thruster_unit(t) for t in vessel.thrusters),
+        thrusters=units,
         pack=pack,
         battery_ua_w_k=b.conductance_to_water_w_k,
         drive_efficiency=d.efficiency,
@@ -288,8 +615,9 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         drive_max_voltage_v=d.max_voltage_v,
         undervoltage_margin_v=d.undervoltage_margin_v,
         hotel_w=vessel.hotel_w,
-        cryocooler_w=vessel.cryocooler_w,
+        cryocooler_w=vessel.cryocooler_w + coil_w,
         overvoltage_margin_v=d.overvoltage_margin_v,
         hull_max_speed_m_s=vmax_hull,
         hull_max_froude=fn_max,
+        coil_power_w=coil_w,
     )

@@ -20,6 +20,7 @@ if TYPE_CHECKING:  # annotations only: conditions need the model, which needs th
 
 __all__ = [
     "BatterySpec",
+    "CoilSpec",
     "DisplacementHullSpec",
     "DriveSpec",
     "HullSpec",
@@ -124,6 +125,48 @@ class MagnetBlocksSpec:
     """Block size along the magnetisation (the field) [m]."""
     grade: str
     """NdFeB grade, e.g. 'N42SH' (any case); its nominal remanence at 20 °C is used."""
+    yoke: bool = False
+    """True: the blocks sit on a steel return yoke (magnetic-circuit estimate,
+    :func:`sim.physics.fields.facing_pair_field`); False: no iron (exact superposition)."""
+
+
+@dataclass(frozen=True)
+class CoilSpec:
+    """An electromagnet whose field over the channel (or annulus) replaces a given field.
+
+    One winding per thruster unit; ``ampere_turns_a`` is N·I of each coil of it (a racetrack
+    pair has two coils carrying the same ampere-turns)."""
+
+    kind: str
+    """'racetrack-pair' (two flat coils above and below a rectangular channel), 'solenoid'
+    (axial field, helical layout) or 'toroid' (azimuthal field, annular and ring-of-tubes
+    layouts)."""
+    ampere_turns_a: float
+    """N·I of each coil [A]."""
+    conductor: str = "copper"
+    """'copper', 'aluminium' (resistive) or 'nbti' (superconducting at 4.2 K)."""
+    straight_length_m: float | None = None
+    """Racetrack pair: length of the straight sides, along the flow [m]."""
+    end_radius_m: float | None = None
+    """Racetrack pair: radius of the semicircular ends [m] (the coil is 2 × this wide)."""
+    separation_m: float | None = None
+    """Racetrack pair: distance between the two coil planes [m] (> the channel height)."""
+    radius_m: float | None = None
+    """Solenoid: winding radius [m] (> the annulus outer radius)."""
+    length_m: float | None = None
+    """Solenoid: winding length [m]."""
+    current_a: float | None = None
+    """Conductor current [A] (resistive: for I²R; superconducting: load line and leads)."""
+    resistance_ohm: float | None = None
+    """Resistive: resistance of the whole winding of one unit [Ω]; None: from voltage_v."""
+    voltage_v: float | None = None
+    """Resistive: voltage across the whole winding of one unit [V]; None: from resistance_ohm."""
+    superconductor_area_m2: float | None = None
+    """NbTi: superconductor cross-section of the conductor, without copper [m²]."""
+    peak_field_t: float | None = None
+    """NbTi: peak field on the winding at current_a [T] (sets the load line)."""
+    persistent: bool = False
+    """NbTi: True when the coil runs in persistent mode (no current-lead heat load)."""
 
 
 @dataclass(frozen=True)
@@ -131,14 +174,16 @@ class ThrusterSpec:
     """One thruster design and how many identical units of it are fitted."""
 
     name: str
-    gap_m: float
-    """Electrode gap [m]."""
-    pole_height_m: float
-    """Distance between the magnet poles [m]."""
+    gap_m: float | None
+    """Electrode gap [m] (duct, stack and ring-of-tubes layouts; None otherwise)."""
+    pole_height_m: float | None
+    """Distance between the magnet poles [m] (duct, stack and ring-of-tubes layouts)."""
     active_length_m: float
     """Length of the electrodes along the flow [m]."""
     field_t: float | None
-    """Mean gap field at field_reference_temperature_c [T]; None: from magnet_blocks."""
+    """Mean gap field at field_reference_temperature_c [T] (annular and ring-of-tubes layouts:
+    the azimuthal field at the mean or ring radius; helical: the axial field); None: from
+    magnet_blocks or coil."""
     units: int = 1
     channels: int = 1
     magnet: str = "permanent"
@@ -182,6 +227,34 @@ class ThrusterSpec:
     """Add the fringing current beyond the ends of the active length."""
     magnet_blocks: MagnetBlocksSpec | None = None
     """Magnet blocks whose mean field over the channel sets the field (field_t None)."""
+    coil: CoilSpec | None = None
+    """Electromagnet whose mean field sets the field (field_t None)."""
+    layout: str = "duct"
+    """'duct' (straight rectangular channels), 'stack' (stack_count short channels sharing one
+    magnet array), 'annular', 'ring-of-tubes' or 'helical' (:mod:`sim.physics.layouts`)."""
+    stack_count: int = 1
+    """Stack: number of channels side by side (the stack's n_channels)."""
+    inner_radius_m: float | None = None
+    """Annular and helical: radius of the inner ring electrode [m]."""
+    outer_radius_m: float | None = None
+    """Annular and helical: radius of the outer ring electrode [m]."""
+    ring_radius_m: float | None = None
+    """Ring of tubes: radius of the tube centres [m]."""
+    tube_count: int = 1
+    """Ring of tubes: number of tubes round the ring."""
+    field_profile: str = "toroidal"
+    """Annular and ring-of-tubes: 'toroidal' (B ∝ 1/r) or 'uniform' azimuthal field."""
+    pitch_angle_deg: float = 45.0
+    """Helical: angle between the passages and the azimuthal direction [°], 0 < φ ≤ 90."""
+    vanes: int = 8
+    """Helical: number of helical vanes (passages)."""
+    stator_recovery: float = 0.6
+    """Helical: share of the swirl kinetic energy the stator returns to the jet [-]."""
+    anode_mass_kg: float | None = None
+    """Sacrificial anodes: metal mass of all anodes of one unit when new [kg]; None: not
+    tracked."""
+    anode_utilisation: float = 0.85
+    """Sacrificial anodes: usable share of anode_mass_kg before the anode counts as spent [-]."""
 
 
 @dataclass(frozen=True)

@@ -12,11 +12,15 @@ from collections.abc import Mapping
 
 import numpy as np
 
+from sim.physics import electrodes
+from sim.physics.electrochem import FARADAY_C_MOL
+
 __all__ = [
     "NOT_FINISHED",
     "OLD_SERIES_NAMES",
     "OLD_SUMMARY_KEYS",
     "SUMMARY_UNITS",
+    "anode_mass_left_kg",
     "summarise",
     "upgrade_summary",
 ]
@@ -227,3 +231,34 @@ def summarise(
         "drive_limit_episodes": episodes,
         "ending_reason": ending_reason,
     }
+
+
+def anode_mass_left_kg(
+    h2_total_mol: float, *, units: int, anode: str, anode_mass_kg: float
+) -> float:
+    """Sacrificial anode metal left on one thruster unit after a run [kg], from the summary's
+    hydrogen total.
+
+    Parameters
+    ----------
+    h2_total_mol : float
+        Hydrogen made at all cathodes [mol] (summary key ``h2_total_mol``).
+    units : int
+        Thruster units that shared that charge (one design: its ``units``).
+    anode : str
+        Key of :data:`sim.physics.electrodes.SACRIFICIAL_ANODES`.
+    anode_mass_kg : float
+        Anode metal of one unit when new [kg].
+
+    Returns
+    -------
+    float
+        m0 − Q/capacity, Q = 2F·n_H₂/units (each coulomb through a cathode makes 1/(2F) mol
+        H₂ and passed an anode), design (practical) capacity; never below 0.
+
+    References
+    ----------
+    Faraday's law; DNV-RP-B401 (2017) (:func:`sim.physics.electrodes.anode_mass_left_kg`).
+    """
+    q = 2.0 * FARADAY_C_MOL * max(float(h2_total_mol), 0.0) / int(units)
+    return float(electrodes.anode_mass_left_kg(anode_mass_kg, q, anode))

@@ -20,12 +20,13 @@ import math
 import re
 from typing import Any
 
-from sim.engine.plant import hull_model, thruster_unit
+from sim.engine.plant import coil_margin, hull_model, thruster_unit
 from sim.io.problems import MISSING, Problem
-from sim.io.schema import DisplacementHull, LegSpec, ScenarioFile, VesselFile
-from sim.io.seam import hull_spec, plant_of, thruster_spec, vessel_spec, water
+from sim.io.schema import DisplacementHull, LegSpec, ScenarioFile, ThrusterSpec, VesselFile
+from sim.io.seam import coil_spec, hull_spec, plant_of, thruster_spec, vessel_spec, water
 from sim.physics import battery, magnets
 from sim.physics.constants import KNOT_M_S
+from sim.physics.electrodes import SACRIFICIAL_ANODES
 from sim.physics.errors import ModelRangeError
 from sim.physics.hull.holtrop_mennen import HOLTROP_MENNEN_RANGES
 from sim.physics.thruster import operating_point
@@ -140,12 +141,57 @@ def vessel_problems(spec: VesselFile, data: dict, file: str) -> list[Problem]:
             out.append(Problem(file, "hull", _shown(data, "hull.model", MISSING), str(exc)))
     for i, t in enumerate(spec.thruster):
         try:
-            thruster_unit(thruster_spec(t))
+            thruster_unit(thruster_spec(t), spec.drive.max_current)
         except ModelRangeError as exc:
             out.append(_range_problem(file, f"thruster[{i}]", type(t).model_fields, exc, data))
         except (ValueError, ArithmeticError) as exc:
             out.append(Problem(file, f"thruster[{i}]", t.name, str(exc)))
+        out.extend(coil_margin_problems(t, f"thruster[{i}]", data, file))
     return out
+
+
+QUENCH_WARNING_FRACTION = 0.8
+"""Load-line fraction I/I_c above which a superconducting coil draws a warning (common practice:
+run at most about 80 % of the critical current on the load line)."""
+
+
+def coil_margin_problems(t: ThrusterSpec, key: str, data: dict, file: str) -> list[Problem]:
+    """The quench margin of a superconducting coil: an error when its operating point lies on or
+    over the NbTi critical line (it would quench), a warning above
+    :data:`QUENCH_WARNING_FRACTION` of the critical current."""
+    if t.coil is None or t.coil.conductor != "nbti":
+        return []
+    try:
+        m = coil_margin(coil_spec(t.coil))
+    except ModelRangeError as exc:
+        return [_range_problem(file, f"{key}.coil", type(t.coil).model_fields, exc, data)]
+    ckey = f"{key}.coil.current"
+    shown = _shown(data, ckey, t.coil.current)
+    if m.load_fraction >= 1.0:
+        return [
+            Problem(
+                file,
+                ckey,
+                shown,
+                f"the coil is over the NbTi critical line at 4.2 K: I/I_c = {m.load_fraction:.2f} "
+                f"(quench at {m.critical_current_a:.0f} A, peak field "
+                f"{m.peak_field_at_critical_t:.2f} T on the load line); allowed: a current below "
+                f"{m.critical_current_a:.0f} A, more superconductor_area or a lower peak_field",
+            )
+        ]
+    if m.load_fraction > QUENCH_WARNING_FRACTION:
+        return [
+            Problem(
+                file,
+                ckey,
+                shown,
+                f"small quench margin: the coil runs at {m.load_fraction:.0%} of its critical "
+                f"current on the load line ({m.critical_current_a:.0f} A); at most "
+                f"{QUENCH_WARNING_FRACTION:.0%} is usual",
+                "warning",
+            )
+        ]
+    return []
 
 
 HULL_MODELS: dict[str, str] = {
@@ -284,6 +330,35 @@ def vessel_warnings(spec: VesselFile, file: str, data: dict | None = None) -> li
                         "warning",
                     )
                 )
+        if t.anode in SACRIFICIAL_ANODES:
+            for k in ("overpotential", "chlorine_fraction"):
+                if k in t.model_fields_set:
+                    out.append(
+                        Problem(
+                            file,
+                            f"{key}.{k}",
+                            _shown(data, f"{key}.{k}", getattr(t, k)),
+                            f"not used with the sacrificial anode '{t.anode}' (its drop comes "
+                            "from the cathode's hydrogen kinetics, and it makes no chlorine)",
+                            "warning",
+                        )
+                    )
+        if t.coil is not None and t.coil.conductor != "nbti":
+            c = t.coil
+            p_w = c.current**2 * c.resistance if c.resistance is not None else c.voltage * c.current
+            out.append(
+                Problem(
+                    file,
+                    f"{key}.coil",
+                    MISSING,
+                    f"the coil of each unit draws {p_w:.4g} W from the pack all the time "
+                    f"({p_w * t.units:.4g} W for {t.units} unit(s)), added to the constant load "
+                    "(as hotel.cryocooler)",
+                    "warning",
+                )
+            )
+        if t.gap is None or t.pole_height is None:
+            continue
         if t.gap > GAP_TO_POLE_WARNING_RATIO * t.pole_height:
             out.append(
                 Problem(
@@ -416,6 +491,21 @@ def scenario_problems(
                     f"above the drive's maximum voltage; allowed: ≤ {vessel.drive.max_voltage:g} V",
                 )
             )
+    if vessel is not None and not any(t.anode_mass is not None for t in vessel.thruster):
+        tables = [(f"leg[{i}].until", leg.until) for i, leg in enumerate(spec.leg)]
+        tables += [(f"trigger[{i}].when", trig.when) for i, trig in enumerate(spec.trigger)]
+        for key, cond in tables:
+            if cond.anode_spent:
+                out.append(
+                    Problem(
+                        file,
+                        f"{key}.anode_spent",
+                        True,
+                        "the vessel has no sacrificial anode with an anode_mass, so no anode "
+                        "can be spent; allowed: a thruster with anode = 'aluminium_zinc_indium' "
+                        "or 'zinc' and anode_mass, or leave anode_spent out",
+                    )
+                )
     st, lim = spec.start, spec.limits
     if st.state_of_charge <= lim.state_of_charge_min:
         out.append(

@@ -417,8 +417,10 @@ def _problems_from(exc: ValidationError, model: type[BaseModel], data: dict, fil
     problems = []
     for err in exc.errors():
         loc = tuple(err["loc"])
-        key, value = _key_path(loc, data)
         kind = err["type"]
+        if kind == "bb_value" and (err.get("ctx") or {}).get("key"):
+            loc = (*loc, *err["ctx"]["key"].split("."))  # a check across keys names its key
+        key, value = _key_path(loc, data)
         if kind == "bb_value" and isinstance(value, dict):
             value = MISSING  # a check of a whole table: its message names what is wrong
         if kind == "extra_forbidden":

@@ -19,6 +19,7 @@ from pydantic import (
     Field,
     PrivateAttr,
     Strict,
+    ValidationError,
     model_validator,
 )
 from pydantic_core import PydanticCustomError
@@ -26,6 +27,7 @@ from pydantic_core import PydanticCustomError
 from sim.io.units import KINDS, UnitParseError, to_si
 from sim.physics.battery import CELL_SETS
 from sim.physics.electrochem import ELECTRODE_MATERIALS
+from sim.physics.electrodes import ELECTRODE_KINETICS, SACRIFICIAL_ANODES
 from sim.physics.magnets import NDFEB_GRADES
 
 
@@ -162,7 +164,45 @@ def _grades():
     return NDFEB_GRADES
 
 
+def _anodes():
+    return set(ELECTRODE_MATERIALS) | set(SACRIFICIAL_ANODES)
+
+
 Electrode = known_name("electrode material", _electrodes)
+Anode = known_name("anode material", _anodes)
+
+SACRIFICIAL_CATHODES = {
+    k.galvanic_key: k.name for k in ELECTRODE_KINETICS.values() if k.role == "cathode"
+}
+"""Cathode material (file name) -> its kinetics entry, for the cathodes a sacrificial anode may
+work against (their hydrogen-evolution overpotential sets the electrode drop)."""
+
+LAYOUTS = ("duct", "stack", "annular", "ring-of-tubes", "helical")
+"""Thruster layouts a vessel file may choose (thruster.layout)."""
+
+COIL_FOR_LAYOUT = {
+    "duct": "racetrack-pair",
+    "stack": "racetrack-pair",
+    "annular": "toroid",
+    "ring-of-tubes": "toroid",
+    "helical": "solenoid",
+}
+"""The coil kind that gives each layout its field (along the poles, azimuthal, axial)."""
+
+
+_LAYOUT_NEEDS = {
+    "duct": ("gap", "pole_height"),
+    "stack": ("gap", "pole_height", "stack_count"),
+    "annular": ("inner_radius", "outer_radius"),
+    "ring-of-tubes": ("gap", "pole_height", "ring_radius", "tube_count"),
+    "helical": ("inner_radius", "outer_radius", "pitch_angle"),
+}
+"""Keys each thruster layout requires."""
+
+
+def _bad(message: str, key: str = "", **ctx):
+    """A check across keys, blamed on ``key`` (dotted, inside the table checked)."""
+    return PydanticCustomError("bb_value", message, {**ctx, "key": key})
 
 
 class _Strict(BaseModel):
@@ -373,6 +413,126 @@ class MagnetBlocks(_Strict):
     grade: known_name("magnet grade", _grades, upper=True)
     """NdFeB grade such as 'N42SH' (case ignored): its nominal remanence at 20 °C sets the field,
     its temperature coefficient and maximum working temperature act as for magnet_grade."""
+    yoke: Annotated[bool, Strict()] = False
+    """true: the blocks sit on steel back plates joined by a return frame (a yoke). The field is
+    then a magnetic-circuit estimate, B = Br/(σ + μ_r·g/(2t)) with the leakage σ of the pole
+    faces (Furlani 2001), spread over the channel like the field without iron; stated to be
+    within about 15 % of a finite-element or magpylib-with-iron result for gaps up to the
+    block width. false: no iron, the blocks' exact superposition field (checked against
+    magpylib).
+
+    Default: no yoke."""
+
+
+class Coil(_Strict):
+    """thruster.coil: an electromagnet that gives the thruster its field instead of `field`. The
+    field is the volume mean over the channel (or annulus) of the filamentary coil field
+    (Biot–Savart; :mod:`sim.physics.fields`). Resistive coils (copper, aluminium) add their
+    I²R to the pack as a constant load; a superconducting coil (nbti) adds its cryocooler input
+    power (an order-of-magnitude estimate from its cold mass and field) and is checked against
+    the NbTi critical line (quench margin). Both loads go into the same constant load as
+    hotel.cryocooler."""
+
+    kind: Literal["racetrack-pair", "solenoid", "toroid"]
+    """'racetrack-pair': two flat racetrack coils above and below a rectangular channel (layouts
+    duct and stack); 'toroid': a toroidal winding round an annulus, B = μ0·N·I/(2π·r) (layouts
+    annular and ring-of-tubes); 'solenoid': a finite solenoid round the annulus, axial field
+    (layout helical)."""
+    ampere_turns: quantity("current", gt=0, le=1e8)
+    """N·I of each coil (a racetrack pair: of each of its two coils; a toroid: the total linking
+    the torus)."""
+    conductor: Literal["copper", "aluminium", "nbti"] = "copper"
+    """Winding conductor: 'copper' or 'aluminium' (resistive: needs magnet = 'electromagnet',
+    current and one of resistance or voltage) or 'nbti' (superconducting at 4.2 K: needs
+    magnet = 'superconducting', current, superconductor_area and peak_field).
+
+    Default: copper."""
+    straight_length: quantity("length", gt=0, le=100, optional=True) = None
+    """Racetrack pair: length of the straight sides, along the flow.
+
+    Default: none (required by kind = 'racetrack-pair')."""
+    end_radius: quantity("length", gt=0, le=100, optional=True) = None
+    """Racetrack pair: radius of the semicircular ends; the coil is twice this wide across the
+    channel.
+
+    Default: none (required by kind = 'racetrack-pair')."""
+    separation: quantity("length", gt=0, le=100, optional=True) = None
+    """Racetrack pair: distance between the planes of the two coils; more than the channel's
+    pole_height (the coils lie outside the channel).
+
+    Default: none (required by kind = 'racetrack-pair')."""
+    radius: quantity("length", gt=0, le=100, optional=True) = None
+    """Solenoid: winding radius; more than the annulus outer_radius.
+
+    Default: none (required by kind = 'solenoid')."""
+    length: quantity("length", gt=0, le=100, optional=True) = None
+    """Solenoid: winding length along the axis.
+
+    Default: none (required by kind = 'solenoid')."""
+    current: quantity("current", gt=0, le=1e6, optional=True) = None
+    """Conductor current (resistive: with resistance or voltage it gives the coil's I²R;
+    superconducting: the operating point on the load line and the current-lead heat load).
+
+    Default: none (required)."""
+    resistance: quantity("resistance", gt=0, optional=True) = None
+    """Resistive coils: resistance of the whole winding of one unit (all its coils in series) at
+    its working temperature; the load is current² × resistance.
+
+    Default: none (give resistance or voltage)."""
+    voltage: quantity("voltage", gt=0, optional=True) = None
+    """Resistive coils: voltage across the whole winding of one unit; the load is voltage ×
+    current.
+
+    Default: none (give resistance or voltage)."""
+    superconductor_area: quantity("area", gt=0, optional=True) = None
+    """NbTi: superconductor cross-section of the conductor, without its copper.
+
+    Default: none (required by conductor = 'nbti')."""
+    peak_field: quantity("field", gt=0, le=30, optional=True) = None
+    """NbTi: highest field on the winding at the operating current; with the current it sets the
+    load line B = k·I, whose crossing with the critical line gives the quench current.
+
+    Default: none (required by conductor = 'nbti')."""
+    persistent: Annotated[bool, Strict()] = False
+    """NbTi: true when the coil runs in persistent mode (no current-lead heat load).
+
+    Default: the leads carry the current."""
+
+    @model_validator(mode="after")
+    def _needs(self):
+        need = {
+            "racetrack-pair": ("straight_length", "end_radius", "separation"),
+            "solenoid": ("radius", "length"),
+            "toroid": (),
+        }[self.kind]
+        if self.conductor == "nbti":
+            need += ("current", "superconductor_area", "peak_field")
+        else:
+            need += ("current",)
+        for k in need:
+            if getattr(self, k) is None:
+                raise _bad(
+                    "a {kind} coil of {cond} needs '{k}'; allowed: give {k}",
+                    k,
+                    kind=self.kind,
+                    cond=self.conductor,
+                    k=k,
+                )
+        if self.conductor != "nbti" and (self.resistance is None) == (self.voltage is None):
+            raise _bad(
+                "a resistive coil needs exactly one of resistance and voltage (its I²R or V·I "
+                "is a load on the pack); allowed: one of them",
+                "resistance",
+            )
+        if self.conductor == "nbti":
+            for k in ("resistance", "voltage"):
+                if getattr(self, k) is not None:
+                    raise _bad(
+                        "a superconducting coil has no resistance; allowed: leave {k} out",
+                        k,
+                        k=k,
+                    )
+        return self
 
 
 class ThrusterSpec(_Strict):
@@ -387,14 +547,78 @@ class ThrusterSpec(_Strict):
     """Number of identical units of this design. Each unit has its own converter (drive.max_current
     is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
     housing drag are the one-unit values times units."""
-    gap: Length
-    """Electrode spacing of one channel: the channel width along the electric field."""
-    pole_height: Length
+    layout: Literal["duct", "stack", "annular", "ring-of-tubes", "helical"] = "duct"
+    """Thruster layout (:mod:`sim.physics.layouts`); each is built into an equivalent straight
+    duct with the same resistance, force per ampere, back EMF, flow area and volume (its own
+    hydraulic diameter for friction), so every result and log channel is as for a duct; the
+    logged field of an annular, ring or helical layout is that equivalent duct's field.
+    'duct': straight rectangular channels (gap, pole_height, channels). 'stack': stack_count
+    short channels side by side sharing one magnet array (gap and pole_height of one channel);
+    the same as a duct with that many channels, named for the design. 'annular': radial current
+    between ring electrodes at inner_radius and outer_radius, azimuthal field (field_profile),
+    axial flow through the annulus (Way 1968). 'ring-of-tubes': tube_count rectangular tubes
+    (gap along the radius, pole_height along the field) on a ring of ring_radius in an
+    azimuthal field. 'helical': a solenoid's axial field, radial current, helical passages at
+    pitch_angle and a stator that recovers stator_recovery of the swirl energy.
+
+    Default: a straight duct (as before this key existed)."""
+    gap: quantity("length", gt=0, le=1e4, optional=True) = None
+    """Electrode spacing of one channel: the channel width along the electric field (layouts
+    duct, stack, ring-of-tubes: along the radius).
+
+    Default: none (required by layouts duct, stack and ring-of-tubes)."""
+    pole_height: quantity("length", gt=0, le=1e4, optional=True) = None
     """Height of one channel between the magnet poles, along the magnetic field; the flow area of a
-    channel is gap × pole_height."""
+    channel is gap × pole_height.
+
+    Default: none (required by layouts duct, stack and ring-of-tubes)."""
     active_length: Length
     """Length of one channel over which electrodes and field act (where the Lorentz force pushes the
-    water)."""
+    water); for annular and helical layouts the axial length of the electrodes."""
+    stack_count: number(ge=1, le=256, integer=True, optional=True) = None
+    """Layout stack: number of short channels side by side, sharing one magnet array; the flow
+    area is stack_count × gap × pole_height and, at the same flow, the duct velocity falls by
+    the count (momentum efficiency up, electrical efficiency per channel unchanged). Wired as
+    channel_wiring says.
+
+    Default: none (required by layout stack)."""
+    inner_radius: quantity("length", gt=0, le=100, optional=True) = None
+    """Layouts annular and helical: radius of the inner ring electrode (the annulus inner wall).
+
+    Default: none (required by layouts annular and helical)."""
+    outer_radius: quantity("length", gt=0, le=100, optional=True) = None
+    """Layouts annular and helical: radius of the outer ring electrode; more than inner_radius.
+
+    Default: none (required by layouts annular and helical)."""
+    ring_radius: quantity("length", gt=0, le=100, optional=True) = None
+    """Layout ring-of-tubes: radius of the tube centres; more than half the gap.
+
+    Default: none (required by layout ring-of-tubes)."""
+    tube_count: number(ge=1, le=256, integer=True, optional=True) = None
+    """Layout ring-of-tubes: number of tubes round the ring, electrically in parallel.
+
+    Default: none (required by layout ring-of-tubes)."""
+    field_profile: Literal["toroidal", "uniform"] = "toroidal"
+    """Layouts annular and ring-of-tubes: how the azimuthal field varies with radius.
+    'toroidal': B ∝ 1/r (a toroidal winding, or a ring of magnets that approximates one);
+    'uniform': constant. `field` is its value at the mean radius (annular) or ring radius.
+
+    Default: toroidal."""
+    pitch_angle: number(gt=0, le=90, optional=True) = None
+    """Layout helical: angle between the helical passages and the azimuthal direction, in
+    degrees (90: axial passages, which give no force in an axial field).
+
+    Default: none (required by layout helical)."""
+    vanes: number(ge=1, le=256, integer=True) = 8
+    """Layout helical: number of helical vanes (passages), for their hydraulic diameter.
+
+    Default: 8."""
+    stator_recovery: number(ge=0, le=1) = 0.6
+    """Layout helical: share of the swirl kinetic energy the stator behind the passages returns
+    to the axial jet; the rest is lost (reported inside the friction loss). Half to three
+    quarters is usual for stator vanes (Carlton 2012; from memory).
+
+    Default: 0.6."""
     channels: number(ge=1, le=256, integer=True) = 1
     """Identical channels in one unit, side by side in the flow; electrically as channel_wiring
     says."""
@@ -404,20 +628,28 @@ class ThrusterSpec(_Strict):
     voltage and the unit current is the channel current. Power, thrust, losses and gas are the
     same; the drive's max_voltage and max_current apply to the unit values."""
     field: quantity("field", ge=0, le=30, optional=True) = None
-    """Mean magnetic flux density in the gap, at field_reference_temperature. Zero is legal (a
-    thruster without a magnet only heats the water); it draws a warning. Give either field or
-    magnet_blocks.
+    """Mean magnetic flux density in the gap, at field_reference_temperature (layouts annular and
+    ring-of-tubes: the azimuthal field at the mean or ring radius; helical: the axial field).
+    Zero is legal (a thruster without a magnet only heats the water); it draws a warning. Give
+    exactly one of field, magnet_blocks and coil.
 
-    Default: none (then magnet_blocks is required)."""
+    Default: none (then magnet_blocks or coil is required)."""
     magnet_blocks: MagnetBlocks | None = None
     """Permanent-magnet blocks on the pole walls whose volume-mean field over the channel is used
     instead of a given field (see the magnet_blocks table). Needs magnet = 'permanent'.
 
     Default: none (the given field is used)."""
+    coil: Coil | None = None
+    """An electromagnet (see the coil table) whose volume-mean field over the channel or annulus
+    is used instead of a given field. Needs magnet = 'electromagnet' (copper, aluminium) or
+    'superconducting' (nbti).
+
+    Default: none."""
     magnet: Literal["permanent", "superconducting", "electromagnet"] = "permanent"
     """Kind of magnet. 'permanent' (NdFeB): the field follows the magnet temperature (−0.12 %/K, or
-    the coefficient of magnet_grade). 'superconducting' or 'electromagnet': constant field. No
-    magnet power is modelled: give a cryocooler or coil load as hotel.cryocooler."""
+    the coefficient of magnet_grade). 'superconducting' or 'electromagnet': constant field. With
+    a coil table the coil's I²R or cryocooler power is added to the constant load; with a given
+    field no magnet power is modelled: give it as hotel.cryocooler."""
     magnet_grade: known_name("magnet grade", _grades, upper=True) | None = None
     """Permanent magnets only: NdFeB grade such as 'N42SH' (case ignored). Sets the field's
     temperature coefficient and the grade's maximum working temperature, which stops the run when a
@@ -427,9 +659,28 @@ class ThrusterSpec(_Strict):
     field_reference_temperature: quantity("temperature", ge=-50, le=100) = 20.0
     """Magnet temperature at which `field` holds; a permanent-magnet field is scaled by 1 +
     α·(T_magnet − this). No effect on other magnets."""
-    anode: Electrode = "graphite"
+    anode: Anode = "graphite"
     """Anode material. With the cathode it sets the galvanic offset (rest potential of the anode
-    minus that of the cathode in flowing seawater), which adds to the electrode voltage drop."""
+    minus that of the cathode in flowing seawater), which adds to the electrode voltage drop.
+    'aluminium_zinc_indium' and 'zinc' are sacrificial anodes: they dissolve instead of evolving
+    chlorine (no chlorine, no oxygen), the pair works as a galvanic cell, E_anode − E_H₂ (about
+    −0.32 V for Al–Zn–In, which helps the current) plus the cathode's hydrogen overpotential at
+    the drive's max_current (Butler–Volmer), and the metal is consumed by Faraday's law
+    (DNV-RP-B401 design capacity: 2000 A·h/kg Al–Zn–In, 780 A·h/kg zinc). With a sacrificial
+    anode the cathode must be one with hydrogen kinetics data (copper, mild_steel,
+    platinised_titanium, stainless_316_passive), overpotential and chlorine_fraction are not
+    used, and the logged oxygen is an upper bound (the duct model still counts the anode charge
+    as oxygen)."""
+    anode_mass: quantity("mass", gt=0, le=1e5, optional=True) = None
+    """Sacrificial anodes only: metal mass of all the anodes of one unit when new. The scenario
+    condition anode_spent (in a leg's until or a trigger's when) watches it.
+
+    Default: not tracked."""
+    anode_utilisation: number(gt=0, le=1) = 0.85
+    """Sacrificial anodes only: usable share of anode_mass; the anode is spent when this share has
+    dissolved (DNV-RP-B401 utilisation factor of long flush-mounted anodes, from memory).
+
+    Default: 0.85."""
     cathode: Electrode = "graphite"
     """Cathode material (see anode)."""
     overpotential: quantity("voltage", ge=0, le=5) = 0.5
@@ -498,15 +749,164 @@ class ThrusterSpec(_Strict):
     """Add the current that fringes beyond the two ends of the active length: it draws current
     and heats the water but gives no thrust."""
 
+    @model_validator(mode="wrap")
+    @classmethod
+    def _missing_for_layout(cls, data: Any, handler):
+        """When other keys are wrong too, report the keys the layout needs as missing in the
+        same pass (the check after validation does not run then)."""
+        try:
+            return handler(data)
+        except ValidationError as exc:
+            lay = data.get("layout", "duct") if isinstance(data, dict) else None
+            need = _LAYOUT_NEEDS.get(lay, ()) if isinstance(lay, str) else ()
+            extra = [k for k in need if k not in data]
+            have = {tuple(e["loc"]) for e in exc.errors()}
+            extra = [k for k in extra if (k,) not in have]
+            if not extra:
+                raise
+            errs = [
+                {
+                    "type": PydanticCustomError(e["type"], e["msg"])
+                    if e["type"].startswith("bb_") or e["type"] == "name_brackets"
+                    else e["type"],
+                    "loc": e["loc"],
+                    "input": e["input"],
+                    **({"ctx": e["ctx"]} if "ctx" in e and not e["type"].startswith("bb_") else {}),
+                }
+                for e in exc.errors()
+            ]
+            errs += [{"type": "missing", "loc": (k,), "input": data} for k in extra]
+            raise ValidationError.from_exception_data(exc.title, errs) from None
+
+    @model_validator(mode="after")
+    def _layout_keys(self):
+        lay = self.layout
+        need = _LAYOUT_NEEDS[lay]
+        for k in need:
+            if getattr(self, k) is None:
+                raise _bad(
+                    "layout '{lay}' needs '{k}'; allowed: give {k} (layout {lay} uses {need})",
+                    k,
+                    lay=lay,
+                    k=k,
+                    need=", ".join(need),
+                )
+        only = {
+            "gap": ("duct", "stack", "ring-of-tubes"),
+            "pole_height": ("duct", "stack", "ring-of-tubes"),
+            "stack_count": ("stack",),
+            "inner_radius": ("annular", "helical"),
+            "outer_radius": ("annular", "helical"),
+            "ring_radius": ("ring-of-tubes",),
+            "tube_count": ("ring-of-tubes",),
+            "pitch_angle": ("helical",),
+        }
+        given = self.model_fields_set
+        extra = {
+            "field_profile": ("annular", "ring-of-tubes"),
+            "vanes": ("helical",),
+            "stator_recovery": ("helical",),
+        }
+        for k, lays in {**only, **extra}.items():
+            if lay not in lays and (getattr(self, k) is not None if k in only else k in given):
+                raise _bad(
+                    "'{k}' applies to layout {lays} only, but layout = '{lay}'; allowed: leave "
+                    "{k} out",
+                    k,
+                    k=k,
+                    lays=" or ".join(lays),
+                    lay=lay,
+                )
+        if self.channels != 1 and lay != "duct":
+            raise _bad(
+                "channels applies to layout duct; layout '{lay}' counts its channels with "
+                "{what}; allowed: leave channels out",
+                "channels",
+                lay=lay,
+                what={"stack": "stack_count", "ring-of-tubes": "tube_count"}.get(lay, "nothing"),
+            )
+        if lay in ("annular", "helical") and not self.outer_radius > self.inner_radius:
+            raise _bad(
+                "outer_radius must be more than inner_radius ({r1:g} m); allowed: > {r1:g} m",
+                "outer_radius",
+                r1=self.inner_radius,
+            )
+        if lay == "helical" and "nozzle_area_ratio" in given:
+            raise _bad(
+                "layout helical sets its own jet from the stator recovery; allowed: leave "
+                "nozzle_area_ratio out",
+                "nozzle_area_ratio",
+            )
+        return self
+
+    @model_validator(mode="after")
+    def _sacrificial(self):
+        sac = self.anode in SACRIFICIAL_ANODES
+        if sac and self.cathode not in SACRIFICIAL_CATHODES:
+            raise _bad(
+                "cathode '{c}' has no hydrogen-evolution kinetics data to pair with the "
+                "sacrificial anode '{a}'; allowed: {allowed}",
+                "cathode",
+                c=self.cathode,
+                a=self.anode,
+                allowed=", ".join(sorted(SACRIFICIAL_CATHODES)),
+            )
+        for k in ("anode_mass", "anode_utilisation"):
+            if not sac and k in self.model_fields_set:
+                raise _bad(
+                    "{k} applies to sacrificial anodes, but anode = '{a}'; allowed: anode = "
+                    "{allowed}, or leave {k} out",
+                    k,
+                    k=k,
+                    a=self.anode,
+                    allowed=" or ".join(f"'{n}'" for n in SACRIFICIAL_ANODES),
+                )
+        return self
+
     @model_validator(mode="after")
     def _field_or_blocks(self):
-        if (self.field is None) == (self.magnet_blocks is None):
+        n_given = sum(x is not None for x in (self.field, self.magnet_blocks, self.coil))
+        if n_given != 1:
             raise PydanticCustomError(
                 "bb_value",
-                "give exactly one of field and magnet_blocks; allowed: a field such as "
-                "'0.75 T', or a magnet_blocks table",
+                "give exactly one of field, magnet_blocks and coil; allowed: a field such as "
+                "'0.75 T', a magnet_blocks table or a coil table",
                 {},
             )
+        if self.magnet_blocks is not None and self.layout not in ("duct", "stack"):
+            raise _bad(
+                "magnet_blocks face a rectangular channel, but layout = '{lay}'; allowed: "
+                "layout duct or stack, or a field or coil",
+                "magnet_blocks",
+                lay=self.layout,
+            )
+        if self.coil is not None:
+            want = COIL_FOR_LAYOUT[self.layout]
+            if self.coil.kind != want:
+                raise _bad(
+                    "a {kind} coil does not give layout '{lay}' its field; allowed: kind = "
+                    "'{want}'",
+                    "coil.kind",
+                    kind=self.coil.kind,
+                    lay=self.layout,
+                    want=want,
+                )
+            if self.coil.kind == "toroid" and self.field_profile != "toroidal":
+                raise _bad(
+                    "a toroid coil gives a field that falls as 1/r; allowed: field_profile = "
+                    "'toroidal' (or leave it out)",
+                    "field_profile",
+                )
+            magnet = "superconducting" if self.coil.conductor == "nbti" else "electromagnet"
+            if self.magnet != magnet:
+                raise _bad(
+                    "a coil of {cond} needs magnet = '{m}', but magnet = '{have}'; allowed: "
+                    "magnet = '{m}'",
+                    "magnet",
+                    cond=self.coil.conductor,
+                    m=magnet,
+                    have=self.magnet,
+                )
         if self.magnet_blocks is not None and self.magnet != "permanent":
             raise PydanticCustomError(
                 "bb_value",
@@ -764,6 +1164,17 @@ class Conditions(_Strict):
     head current bring it back down), and the condition holds when that position falls to zero or
     below, i.e. when the vessel is back at (or behind) where the run began. It acts at once in a
     leg that starts there, so give it to a leg flown after one that went out. false: not watched.
+
+    Default: not watched."""
+
+    anode_spent: bool | None = None
+    """true: a sacrificial anode of the vessel is spent, i.e. the usable share (thruster
+    anode_utilisation) of its anode_mass has dissolved. The charge comes from the hydrogen the
+    cathodes made (Q = 2F·n_H₂, the same charge passed the anodes) and the mass from the anode's
+    design capacity (Faraday's law, DNV-RP-B401); charge passed going astern is counted too (an
+    upper bound). With several thruster designs the whole charge is charged to each design's
+    units (an upper bound: the run ends no later than the first anode is spent). The vessel
+    needs a thruster with anode_mass. false: not watched.
 
     Default: not watched."""
 

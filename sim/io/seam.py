@@ -17,6 +17,7 @@ from sim.engine.plant import Plant, build_plant
 from sim.io import schema
 
 __all__ = [
+    "coil_spec",
     "conditions",
     "hull_spec",
     "limits_spec",
@@ -116,7 +117,41 @@ def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
             length_m=t.magnet_blocks.length,
             thickness_m=t.magnet_blocks.thickness,
             grade=t.magnet_blocks.grade,
+            yoke=t.magnet_blocks.yoke,
         ),
+        coil=None if t.coil is None else coil_spec(t.coil),
+        layout=t.layout,
+        stack_count=t.stack_count or 1,
+        inner_radius_m=t.inner_radius,
+        outer_radius_m=t.outer_radius,
+        ring_radius_m=t.ring_radius,
+        tube_count=t.tube_count or 1,
+        field_profile=t.field_profile,
+        pitch_angle_deg=45.0 if t.pitch_angle is None else t.pitch_angle,
+        vanes=t.vanes,
+        stator_recovery=t.stator_recovery,
+        anode_mass_kg=t.anode_mass,
+        anode_utilisation=t.anode_utilisation,
+    )
+
+
+def coil_spec(c: schema.Coil) -> spec.CoilSpec:
+    """A thruster's ``coil`` table as the engine's :class:`~sim.engine.spec.CoilSpec`."""
+    return spec.CoilSpec(
+        kind=c.kind,
+        ampere_turns_a=c.ampere_turns,
+        conductor=c.conductor,
+        straight_length_m=c.straight_length,
+        end_radius_m=c.end_radius,
+        separation_m=c.separation,
+        radius_m=c.radius,
+        length_m=c.length,
+        current_a=c.current,
+        resistance_ohm=c.resistance,
+        voltage_v=c.voltage,
+        superconductor_area_m2=c.superconductor_area,
+        peak_field_t=c.peak_field,
+        persistent=c.persistent,
     )
 
 

@@ -57,7 +57,6 @@ from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import ArrayLike
-from scipy.special import ellipe, ellipk
 
 from sim.physics.errors import ModelRangeError
 from sim.physics.magnet_gap import facing_blocks_field_z_t
@@ -585,6 +584,8 @@ def circular_loop_field_t(
     beta2 = a * a + r2 + 2.0 * a * rho
     beta = np.sqrt(beta2)
     m = 1.0 - np.divide(alpha2, beta2, out=np.zeros_like(beta2), where=beta2 > 0)
+    from scipy.special import ellipe, ellipk  # ≈0.2 s to import: only for coil loops
+
     kk, ee = ellipk(m), ellipe(m)
     c = MU0 * float(current_a) / np.pi
     with np.errstate(divide="ignore", invalid="ignore"):
