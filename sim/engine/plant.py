@@ -592,7 +592,11 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         model = hull.with_appendages(model, apps)
     b = vessel.battery
     pack = bat.Pack(
-        cell=bat.CELL_SETS[b.cell],
+        cell=bat.aged_cell(
+            bat.CELL_SETS[b.cell],
+            capacity_retained=b.capacity_retained,
+            resistance_growth=b.resistance_growth,
+        ),
         n_series=b.series,
         n_parallel=b.parallel,
         extra_series_resistance_ohm=b.extra_resistance_ohm,

@@ -269,6 +269,10 @@ class BatterySpec:
     """Busbar and contact resistance in series with the pack [Ω]."""
     conductance_to_water_w_k: float = 5.0
     """Thermal conductance from the pack to the water [W/K]."""
+    capacity_retained: float = 1.0
+    """Aged capacity over new capacity [-] (1: new cells)."""
+    resistance_growth: float = 1.0
+    """Aged resistance over new resistance [-] (1: new cells)."""
 
 
 @dataclass(frozen=True)

@@ -945,6 +945,15 @@ class BatterySpec(_Strict):
     conductance_to_water: quantity("thermal_conductance", gt=0) = 5.0
     """Overall heat-transfer conductance UA from the cells to the surrounding water; the lumped pack
     temperature T follows (heat − UA·(T − T_water)) / thermal mass."""
+    capacity_retained: number(ge=0.3, le=1.0) = 1.0
+    """State of health: capacity of the aged cells over that of new ones (0.8 = 80 %).
+
+    Default: 1, new cells. End of life is commonly taken at 0.7–0.8 (common practice)."""
+    resistance_growth: number(ge=1.0, le=5.0) = 1.0
+    """Internal resistance of the aged cells over that of new ones (R0 and the RC resistances;
+    the RC time constants are kept).
+
+    Default: 1, new cells. End of life is commonly taken at 2 (common practice)."""
 
 
 class DriveSpec(_Strict):

@@ -170,6 +170,8 @@ def vessel_spec(vf: schema.VesselFile) -> spec.VesselSpec:
             parallel=b.parallel,
             extra_resistance_ohm=b.extra_resistance,
             conductance_to_water_w_k=b.conductance_to_water,
+            capacity_retained=b.capacity_retained,
+            resistance_growth=b.resistance_growth,
         ),
         drive=spec.DriveSpec(
             max_current_a=d.max_current,

@@ -60,6 +60,7 @@ References
    constant).
 """
 
+from sim.physics.battery.ageing import aged_cell
 from sim.physics.battery.cells import (
     CELL_SETS,
     LFP_PRISMATIC_REPRESENTATIVE,
@@ -125,6 +126,7 @@ __all__ = [
     "CellParameters",
     "Pack",
     "PackOperatingPoint",
+    "aged_cell",
     "battery_temperature_rate_k_s",
     "busbar_loss_w",
     "drc_dt",
