@@ -15,7 +15,11 @@ a residual (the energy equation of the duct, module docstring of :mod:`sim.physi
 ½ρk u² + wall friction − q = J·B·L, J = σ(E − uB), σ at the mean duct temperature). The
 drive (per-unit current limit, maximum voltage, fold-back at the pack power limit) and the
 speed hold (feed-forward plus PI, anti-windup, pole-placement gains) follow
-:mod:`sim.engine.model` and :mod:`sim.engine.mission` as written today.
+:mod:`sim.engine.model` and :mod:`sim.engine.mission` as written today. From the physics
+review (issue 9) it takes what the bundled runs feel: the magnets see the bulk duct temperature
+rise (Joule + friction + overpotential heat, :func:`sim.physics.duct_heat.duct_heat`) and the
+cells heat without the busbar loss. It leaves out what they do not use: wake fraction and
+thrust deduction (0 on both vessels), charge fold-back (no regeneration), series channel wiring.
 
 Scope: ducted jets without electrolysis gas or end effects (both bundled vessels), legs in
 voltage, current, power or speed mode; leg ends by distance, duration, speed and state of
@@ -40,6 +44,7 @@ from sim.engine.plant import Plant, ThrusterUnit
 from sim.engine.spec import MissionSpec
 from sim.physics import battery as bat
 from sim.physics.duct import friction_terms_scalar
+from sim.physics.duct_heat import duct_heat
 from sim.physics.seawater import WaterState
 
 BOILING_C = 100.0  # the conductivity's temperature rise is capped at boiling (thruster module)
@@ -117,10 +122,30 @@ class RefThruster:
         return brentq(f, lo, hi, xtol=XTOL, rtol=RTOL_ROOT, maxiter=200)
 
     def _point(self, sv, v0, u, j, sig, e, volts) -> UnitPoint:
-        mdot = self.rho * self.n * self.area * u
+        q_flow = self.n * self.area * u
+        mdot = self.rho * q_flow
         thrust = mdot * (u / self.r - v0) if u >= 0.0 else mdot * (abs(u) + v0)
         current = j * self.n * self.h * self.length
-        rise = j * j * self.length / (sig * self.rho * self.cp * max(abs(u), U_FLOOR_M_S))
+        # the magnet sees the bulk duct temperature rise: Joule + friction + overpotential heat
+        # (physics review, sim.physics.duct_heat), not the Joule rise alone
+        joule = j * j / sig * (self.n * self.area * self.length)
+        wall = 0.0
+        if self.wall:
+            re = self.rho * abs(u) * self.d_h / self.mu
+            fre = friction_terms_scalar(re, self.eps, self.alpha)
+            wall = fre[0] * self.mu * self.length * abs(u) / (2.0 * self.d_h * self.d_h)
+        k_minor = self.k_in + self.k_noz / (self.r * self.r) if u >= 0.0 else self.k_in + self.k_noz
+        friction = (0.5 * self.rho * u * u * k_minor + wall) * abs(q_flow)
+        rise = duct_heat(
+            max(joule, 0.0),
+            max(friction, 0.0),
+            self.unit.overpotential_v,
+            current,
+            u,
+            self.n * self.area,
+            self.rho,
+            self.cp,
+        ).rise_k
         return UnitPoint(sv * thrust, sv * current, sv * volts, volts * current, rise)
 
     def at_voltage(self, speed: float, volts: float, b: float) -> UnitPoint:
@@ -319,7 +344,8 @@ class ReferenceModel:
         d = bat.drc_dt(pk, soc, temp, i, rc)
         dy[RC1] = d[0]
         dy[RC2] = d[1] if pk.n_rc > 1 else 0.0
-        heat = bat.heat_generation_w(pk, i, soc, temp, rc)
+        # the cells' heat only: the busbar loss warms the busbars (physics review)
+        heat = bat.heat_generation_w(pk, i, soc, temp, rc, include_busbars=False)
         dy[TB] = bat.battery_temperature_rate_k_s(pk, heat, temp, w.t_c, p.battery_ua_w_k)
         for k, (u, op) in enumerate(zip(p.thrusters, a["ops"], strict=True)):
             dy[self.i_mag + k] = (

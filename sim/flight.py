@@ -42,11 +42,10 @@ class _LogObserver(RunObserver):
     def __init__(self, writer: RunLogWriter, inner: RunObserver | None) -> None:
         self.w, self.inner = writer, inner or RunObserver()
 
-    def samples(self, rows):
-        cols = {k: [r[k] for r in rows] for k in rows[0]}
-        self.w.append(cols)
+    def samples(self, columns):
+        self.w.append(columns)
         self.w.maybe_flush()
-        self.inner.samples(rows)
+        self.inner.samples(columns)
 
     def event(self, time_s, kind, leg, message):
         self.w.add_event(time_s, kind, leg, message)

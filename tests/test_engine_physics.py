@@ -18,7 +18,7 @@ from sim import api
 from sim.engine.mission import MissionRunner, sample_events
 from sim.engine.model import I_TB, Control, VesselModel, initial_state
 from sim.engine.plant import build_plant
-from sim.engine.spec import LegSpec, MagnetBlocksSpec, MissionSpec, StartSpec, Water
+from sim.engine.spec import LegSpec, MagnetBlocksSpec, MissionSpec, SolverSpec, StartSpec, Water
 from sim.engine.steady import steady_at_speed
 from sim.engine.summary import summarise, upgrade_summary
 from sim.physics import battery as bat
@@ -204,6 +204,8 @@ def test_energy_balance_with_hull_interaction():
         name="run",
         legs=(LegSpec(name="go", mode="voltage", setpoint=80.0, duration_s=300.0),),
         start=StartSpec(state_of_charge=0.8, speed_m_s=1.0),
+        # conservation of the model, not of the integrator: tighter than the default rtol
+        solver=SolverSpec(rtol=1e-8),
     )
     r = MissionRunner(plant, mission).run()
     t = r.totals

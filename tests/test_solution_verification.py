@@ -1,11 +1,11 @@
 """Solution verification of the step-by-step TR-BDF2 integrator (issue 11).
 
-Each case is flown twice on the same plant: with TR-BDF2 at rtol 1e-5 (the tolerance the fast
-engine runs at), and with scipy's Radau IIA (order 5, an independent general-purpose stiff
-integrator: Hairer & Wanner 1996, Solving ODEs II, §IV.8; scipy.integrate.Radau) at rtol 1e-10
-with a 10 s maximum step, taken as the exact solution. Targets (issue 11): distance, energy drawn
-at the pack terminals and end state of charge within 0.05 %; the same events in the same order,
-each within one sample interval.
+Each case is flown twice on the same plant: with the default solver (TR-BDF2 at rtol 1e-5, what
+a scenario without a [solver] table runs), and with scipy's Radau IIA (order 5, an independent
+general-purpose stiff integrator: Hairer & Wanner 1996, Solving ODEs II, §IV.8;
+scipy.integrate.Radau) at rtol 1e-10 with a 10 s maximum step, taken as the exact solution.
+Targets (issue 11): distance, energy drawn at the pack terminals and end state of charge within
+0.05 %; the same events in the same order, each within one sample interval.
 """
 
 from __future__ import annotations
@@ -17,8 +17,8 @@ import pytest
 from engine_helpers import write_scenario
 
 from sim import api
-from sim.engine.integrator import METHOD
 from sim.engine.mission import MissionRunner
+from sim.engine.spec import DEFAULT_METHOD, default_rtol
 
 ROOT = Path(__file__).resolve().parent.parent
 REL = 5e-4  # 0.05 % (issue 11)
@@ -41,7 +41,7 @@ def _fly(path: Path, method: str, rtol: float, max_step_s: float):
 
 
 def _verify(path: Path) -> None:
-    fast, sample_s = _fly(path, METHOD, 1e-5, 600.0)
+    fast, sample_s = _fly(path, DEFAULT_METHOD, default_rtol(DEFAULT_METHOD), 600.0)
     exact, _ = _fly(path, "Radau", 1e-10, 10.0)
     for key in ("distance_m", "energy_out_j", "end_state_of_charge"):
         a, b = float(exact.summary[key]), float(fast.summary[key])
@@ -50,6 +50,11 @@ def _verify(path: Path) -> None:
     for ef, ee in zip(fast.events, exact.events, strict=True):
         assert abs(ef["time_s"] - ee["time_s"]) <= sample_s, (ef, ee)
     assert fast.ending_reason == exact.ending_reason
+
+
+def test_a_scenario_without_solver_table_runs_the_verified_method():
+    spec = api.load_scenario(ROOT / "scenarios" / "glasswort-survey.toml").mission_spec
+    assert (spec.solver.method, spec.solver.rtol) == ("TR-BDF2", 1e-5)
 
 
 @pytest.mark.parametrize("name", ["glasswort-survey.toml", "halite-coastal-trial.toml"])

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import math
 import time as _time
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -200,64 +201,130 @@ def _ratio(a: float, b: float) -> float:
     return a / b if b > 1e-12 else 0.0
 
 
-def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> dict:
-    s = model.evaluate(t, y)
+_SCALAR_FIELDS = (
+    "total_thrust_n",
+    "resistance_n",
+    "thr_power_w",
+    "pack_power_w",
+    "pack_current_a",
+    "pack_voltage_v",
+    "cell_voltage_v",
+    "pack_heat_w",
+    "busbar_w",
+    "joule_w",
+    "electrode_w",
+    "electrode_heat_w",
+    "friction_w",
+    "wake_w",
+    "drive_loss_w",
+    "hotel_w",
+    "interaction_w",
+    "flow_work_w",
+    "h2",
+    "cl2",
+)
+_LIST_FIELDS = ("thrust_n", "current_a", "voltage_v", "field_t", "duct_rise_k", "duct_joule_rise_k")
+INT_CHANNELS = ("leg_index", "charge_folded", "drive_saturated", "power_folded")
+"""Sample channels that hold whole numbers (int64 columns); every other channel is float64."""
+
+
+def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: int) -> dict:
+    """The logged channels at the times ``ts`` [s] (shape (n,)) with the states ``ys`` (shape
+    (state size, n)), under the model's current control: channel name -> numpy column (shape
+    (n,), or (n, thruster designs) for per-design channels). Each point is evaluated once; no
+    per-sample dictionaries are built."""
     p, lay = model.plant, model.lay
-    speed = float(y[I_V])
-    useful = s.total_thrust_n * speed
-    extra = model.duct_extras(s, speed)
-    v_rc = float(y[I_RC1]) + float(y[I_RC2])
+    n, nthr = len(ts), lay.n_thr
+    ys = np.asarray(ys, dtype=float).reshape(lay.size, n)
+    sc = np.empty((n, len(_SCALAR_FIELDS)))
+    li = np.empty((len(_LIST_FIELDS) + 4, n, nthr))
+    flags = np.empty((n, 3), dtype=np.int64)
+    chg = np.empty(n)
+    short = np.empty(n)
+    c = model.control
+    for j in range(n):
+        y = ys[:, j]
+        s = model.evaluate(float(ts[j]), y)
+        sc[j] = [getattr(s, f) for f in _SCALAR_FIELDS]
+        for q, f in enumerate(_LIST_FIELDS):
+            li[q, j] = getattr(s, f)
+        speed = float(y[I_V])
+        extra = model.duct_extras(s, speed)
+        li[len(_LIST_FIELDS), j] = extra["end_current_a"]
+        li[len(_LIST_FIELDS) + 1, j] = extra["void_mean"]
+        li[len(_LIST_FIELDS) + 2, j] = extra["void_outlet"]
+        v_rc = float(y[I_RC1]) + float(y[I_RC2])
+        chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
+        flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
+        short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
+    col = dict(zip(_SCALAR_FIELDS, sc.T, strict=True))
+    per = dict(zip(_LIST_FIELDS, li, strict=False))
+    speed = ys[I_V].copy()
+    useful = col["total_thrust_n"] * speed
     return {
-        "time_s": t,
-        "leg_index": leg_index,
+        "time_s": np.array(ts, dtype=float),
+        "leg_index": np.full(n, leg_index, dtype=np.int64),
         "speed_through_water_m_s": speed,
         "speed_over_ground_m_s": speed + p.water_current_m_s,
-        "distance_m": float(y[I_XG]),
-        "distance_through_water_m": float(y[I_XW]),
-        "thrust_n": list(s.thrust_n),
-        "thruster_current_a": list(s.current_a),
-        "thruster_voltage_v": list(s.voltage_v),
-        "field_t": list(s.field_t),
-        "duct_temperature_rise_k": list(s.duct_rise_k),
-        "duct_joule_rise_k": list(s.duct_joule_rise_k),
-        "magnet_temperature_c": [float(v) for v in y[lay.i_mag : lay.i_mag + lay.n_thr]],
-        "effective_thrust_n": s.total_thrust_n,
-        "end_current_a": extra["end_current_a"],
-        "void_fraction_mean": extra["void_mean"],
-        "void_fraction_outlet": extra["void_outlet"],
-        "hull_resistance_n": s.resistance_n,
-        "thruster_power_w": s.thr_power_w,
-        "pack_power_w": s.pack_power_w,
-        "pack_current_a": s.pack_current_a,
-        "pack_voltage_v": s.pack_voltage_v,
-        "cell_voltage_v": s.cell_voltage_v,
-        "state_of_charge": float(y[I_SOC]),
-        "battery_temperature_c": float(y[I_TB]),
-        "battery_heat_w": s.pack_heat_w,
-        "busbar_loss_w": s.busbar_w,
-        "pack_charge_limit_w": model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB])),
-        "charge_folded": int(s.charge_folded),
-        "joule_loss_w": s.joule_w,
-        "electrode_loss_w": s.electrode_w,
-        "electrode_heat_w": s.electrode_heat_w,
-        "friction_loss_w": s.friction_w,
-        "wake_loss_w": s.wake_w,
-        "drive_loss_w": s.drive_loss_w,
-        "hotel_power_w": s.hotel_w,
+        "distance_m": ys[I_XG].copy(),
+        "distance_through_water_m": ys[I_XW].copy(),
+        "thrust_n": per["thrust_n"],
+        "thruster_current_a": per["current_a"],
+        "thruster_voltage_v": per["voltage_v"],
+        "field_t": per["field_t"],
+        "duct_temperature_rise_k": per["duct_rise_k"],
+        "duct_joule_rise_k": per["duct_joule_rise_k"],
+        "magnet_temperature_c": ys[lay.i_mag : lay.i_mag + nthr].T.copy(),
+        "effective_thrust_n": col["total_thrust_n"],
+        "end_current_a": li[len(_LIST_FIELDS)],
+        "void_fraction_mean": li[len(_LIST_FIELDS) + 1],
+        "void_fraction_outlet": li[len(_LIST_FIELDS) + 2],
+        "hull_resistance_n": col["resistance_n"],
+        "thruster_power_w": col["thr_power_w"],
+        "pack_power_w": col["pack_power_w"],
+        "pack_current_a": col["pack_current_a"],
+        "pack_voltage_v": col["pack_voltage_v"],
+        "cell_voltage_v": col["cell_voltage_v"],
+        "state_of_charge": ys[I_SOC].copy(),
+        "battery_temperature_c": ys[I_TB].copy(),
+        "battery_heat_w": col["pack_heat_w"],
+        "busbar_loss_w": col["busbar_w"],
+        "pack_charge_limit_w": chg,
+        "charge_folded": flags[:, 0],
+        "joule_loss_w": col["joule_w"],
+        "electrode_loss_w": col["electrode_w"],
+        "electrode_heat_w": col["electrode_heat_w"],
+        "friction_loss_w": col["friction_w"],
+        "wake_loss_w": col["wake_w"],
+        "drive_loss_w": col["drive_loss_w"],
+        "hotel_power_w": col["hotel_w"],
         "useful_power_w": useful,
-        "hull_interaction_power_w": s.interaction_w,
-        "eta_electrical": _ratio(s.flow_work_w, s.thr_power_w),
-        "eta_hydraulic": _ratio(useful, s.flow_work_w),
-        "eta_overall": _ratio(useful, s.thr_power_w),
-        "h2_rate_mol_s": s.h2,
-        "cl2_rate_mol_s": s.cl2,
-        "h2_total_mol": float(y[lay.acc["h2_mol"]]),
-        "cl2_total_mol": float(y[lay.acc["cl2_mol"]]),
-        "energy_out_j": float(y[lay.acc["energy_pack_terminal_j"]]),
-        "drive_saturated": int(bool(s.saturated) and not s.folded),
-        "power_folded": int(bool(s.folded)),
-        "speed_short_m_s": _speed_short(model, float(y[I_V]), s),
+        "hull_interaction_power_w": col["interaction_w"],
+        "eta_electrical": _ratios(col["flow_work_w"], col["thr_power_w"]),
+        "eta_hydraulic": _ratios(useful, col["flow_work_w"]),
+        "eta_overall": _ratios(useful, col["thr_power_w"]),
+        "h2_rate_mol_s": col["h2"],
+        "cl2_rate_mol_s": col["cl2"],
+        "h2_total_mol": ys[lay.acc["h2_mol"]].copy(),
+        "cl2_total_mol": ys[lay.acc["cl2_mol"]].copy(),
+        "energy_out_j": ys[lay.acc["energy_pack_terminal_j"]].copy(),
+        "drive_saturated": flags[:, 1],
+        "power_folded": flags[:, 2],
+        "speed_short_m_s": short,
     }
+
+
+def _ratios(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """a / b where b > 1e-12, else 0 (elementwise; as :func:`_ratio`)."""
+    ok = b > 1e-12
+    return np.where(ok, a / np.where(ok, b, 1.0), 0.0)
+
+
+def sample_row(model: VesselModel, t: float, y: np.ndarray, leg_index: int) -> dict:
+    """The logged channels at one instant as a dict of plain values (one row of
+    :func:`sample_block`)."""
+    block = sample_block(model, np.array([t]), np.asarray(y, dtype=float)[:, None], leg_index)
+    return {k: (v[0].tolist() if v.ndim > 1 else v[0].item()) for k, v in block.items()}
 
 
 CHARGE_FOLD_START = "charge fold-back"
@@ -341,6 +408,25 @@ class _Episode:
         return False
 
 
+class _Row(Mapping):
+    """One sample of a column block, read as a mapping (plain values; lists per design)."""
+
+    __slots__ = ("cols", "j")
+
+    def __init__(self, cols: dict[str, np.ndarray], j: int) -> None:
+        self.cols, self.j = cols, j
+
+    def __getitem__(self, key: str):
+        v = self.cols[key][self.j]
+        return v.tolist() if isinstance(v, np.ndarray) else v.item()
+
+    def __iter__(self):
+        return iter(self.cols)
+
+    def __len__(self) -> int:
+        return len(self.cols)
+
+
 class _Columns:
     """The logged samples kept for the run's result, as preallocated numpy columns that grow by
     doubling (a row of dicts costs about 40× the memory: benchmarks/PROFILE.md §5.4)."""
@@ -348,27 +434,34 @@ class _Columns:
     def __init__(self) -> None:
         self.n = 0
         self.cols: dict[str, np.ndarray] = {}
-        self.last: dict | None = None
 
-    def append(self, row: dict) -> None:
+    def extend(self, block: dict[str, np.ndarray]) -> None:
+        """Append a block of samples (channel -> column, as :func:`sample_block`)."""
+        m = len(block["time_s"])
         if not self.cols:
-            for k, v in row.items():
-                if isinstance(v, list):
-                    self.cols[k] = np.empty((64, len(v)))
-                elif isinstance(v, int | bool | np.integer):
-                    self.cols[k] = np.empty(64, dtype=np.int64)
-                else:
-                    self.cols[k] = np.empty(64)
+            self.cols = {
+                k: np.empty((max(64, m), *v.shape[1:]), dtype=v.dtype) for k, v in block.items()
+            }
         n = self.n
-        if n == len(self.cols["time_s"]):
+        cap = len(self.cols["time_s"])
+        if n + m > cap:
+            cap = max(2 * cap, n + m)
             for k, a in self.cols.items():
-                b = np.empty((2 * n, *a.shape[1:]), dtype=a.dtype)
-                b[:n] = a
+                b = np.empty((cap, *a.shape[1:]), dtype=a.dtype)
+                b[:n] = a[:n]
                 self.cols[k] = b
-        for k, v in row.items():
-            self.cols[k][n] = v
-        self.n = n + 1
-        self.last = row
+        for k, v in block.items():
+            self.cols[k][n : n + m] = v
+        self.n = n + m
+
+    @property
+    def last(self) -> _Row | None:
+        """The last sample, or None before the first."""
+        return _Row(self.cols, self.n - 1) if self.n else None
+
+    @property
+    def last_time(self) -> float | None:
+        return float(self.cols["time_s"][self.n - 1]) if self.n else None
 
     def series(self) -> dict[str, np.ndarray]:
         return {k: a[: self.n].copy() for k, a in self.cols.items()}
@@ -380,7 +473,9 @@ class _Columns:
 class RunObserver:
     """Receives what a run produces. Subclass and override what you need."""
 
-    def samples(self, rows: list[dict]) -> None: ...
+    def samples(self, columns: dict[str, np.ndarray]) -> None:
+        """A block of logged samples: channel name -> numpy column along time (shape (n,), or
+        (n, thruster designs) for per-design channels). The arrays are the observer's to keep."""
 
     def event(self, time_s: float, kind: str, leg: int, message: str) -> None: ...
 
@@ -654,23 +749,36 @@ class MissionRunner:
 
     # ------------------------------------------------------------------ integration
     def _record(self, t: float, y: np.ndarray) -> None:
-        if self._rows.last is not None and self._rows.last["time_s"] == t:
-            return  # one row per instant: the first (before an event acts) is kept
-        self._last_ty = (t, y)
-        row = sample_row(self.model, t, y, self.m.leg_index)
-        for k, v in row.items():
-            if not all(math.isfinite(x) for x in (v if isinstance(v, list) else [v])):
+        self._record_block(np.array([t]), np.asarray(y, dtype=float)[:, None])
+
+    def _record_block(self, ts: np.ndarray, ys: np.ndarray) -> None:
+        """Log the samples at the times ``ts`` [s] (increasing) with the states ``ys`` (shape
+        (state size, n)): one row per instant (the first, before an event acts, is kept)."""
+        last = self._rows.last_time
+        if last is not None and ts[0] == last:
+            ts, ys = ts[1:], ys[:, 1:]
+        if not len(ts):
+            return
+        self._last_ty = (float(ts[0]), ys[:, 0])
+        block = sample_block(self.model, ts, ys, self.m.leg_index)
+        for k, v in block.items():
+            if v.dtype.kind == "f" and not np.isfinite(v).all():
+                bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
                 raise SolverFailure(
-                    f"non-finite value of {k} ({v})",
-                    t,
+                    f"non-finite value of {k} ({v[bad].tolist()})",
+                    float(ts[bad]),
                     self.legs[self.m.leg_index].name,
-                    self._state_dict(y),
+                    self._state_dict(ys[:, bad]),
                 )
-        for kind, message in sample_events(self.plant, self._rows.last, row, self._seen):
-            self._emit(t, kind, self.m.leg_index, message)
-        self._rows.append(row)
-        self._pending_rows.append(row)
-        self._watch_limits(row)
+        prev = self._rows.last
+        for j in range(len(ts)):
+            row = _Row(block, j)
+            for kind, message in sample_events(self.plant, prev, row, self._seen):
+                self._emit(float(ts[j]), kind, self.m.leg_index, message)
+            self._watch_limits(row)
+            prev = row
+        self._rows.extend(block)
+        self._pending_rows.append(block)
 
     def _watch_limits(self, row: dict) -> None:
         """Events when the drive starts or stops saturating, folding back, or falling short of a
@@ -936,12 +1044,12 @@ class MissionRunner:
             return
         self._next_k = k0 + ts.size
         inside = ts[(ts >= t0) & (ts < t_end)]
-        if inside.size:
-            ys = sol.sol(inside)
-            for j, ts_j in enumerate(inside):
-                self._record(float(ts_j), ys[:, j])
+        ys = sol.sol(inside) if inside.size else np.empty((y_end.size, 0))
         if ts[-1] == t_end:
-            self._record(t_end, y_end)
+            inside = np.append(inside, t_end)
+            ys = np.concatenate((ys, np.asarray(y_end, dtype=float)[:, None]), axis=1)
+        if inside.size:
+            self._record_block(inside, ys)
 
     # ------------------------------------------------------------------ the mission process
     def _process(self, env: simpy.Environment, y: np.ndarray):
@@ -1035,8 +1143,9 @@ class MissionRunner:
 
     def _flush_rows(self) -> None:
         if self._pending_rows:
-            self.obs.samples(self._pending_rows)
-            self._pending_rows = []
+            blocks, self._pending_rows = self._pending_rows, []
+            cols = {k: np.concatenate([b[k] for b in blocks]) for k in blocks[0]}
+            self.obs.samples(cols)
 
     def _finish(self, t: float, y: np.ndarray, reason: str, kind: str) -> None:
         m = self.m

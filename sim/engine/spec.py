@@ -19,6 +19,7 @@ if TYPE_CHECKING:  # annotations only: conditions need the model, which needs th
     from sim.engine.conditions import Condition
 
 __all__ = [
+    "DEFAULT_METHOD",
     "BatterySpec",
     "CoilSpec",
     "DisplacementHullSpec",
@@ -37,6 +38,7 @@ __all__ = [
     "TriggerSpec",
     "VesselSpec",
     "Water",
+    "default_rtol",
 ]
 
 # --------------------------------------------------------------------------- water
@@ -377,13 +379,25 @@ class LimitsSpec:
     duct_temperature_rise_max_k: float | None = None
 
 
+DEFAULT_METHOD = "TR-BDF2"
+"""The integration method of a scenario that names none (:mod:`sim.engine.integrator`)."""
+
+
+def default_rtol(method: str) -> float:
+    """Relative tolerance of a method when the scenario gives none [-]: 1e-5 for TR-BDF2
+    (tests/test_solution_verification.py: within 0.05 % of Radau at 1e-10), 1e-7 for the
+    solve_ivp methods."""
+    return 1e-5 if method == DEFAULT_METHOD else 1e-7
+
+
 @dataclass(frozen=True)
 class SolverSpec:
-    """Settings of :func:`scipy.integrate.solve_ivp`."""
+    """Settings of the integrator: brinebolt's TR-BDF2 or a :func:`scipy.integrate.solve_ivp`
+    method."""
 
-    rtol: float = 1e-7
+    rtol: float = 1e-5
     max_step_s: float = 600.0
-    method: str = "RK45"
+    method: str = DEFAULT_METHOD
 
 
 @dataclass(frozen=True)

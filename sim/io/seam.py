@@ -256,7 +256,11 @@ def mission_spec(sf: schema.ScenarioFile) -> spec.MissionSpec:
         ),
         limits=limits_spec(sf.limits),
         sample_s=sf.output.sample,
-        solver=spec.SolverSpec(rtol=sv.rtol, max_step_s=sv.max_step, method=sv.method),
+        solver=spec.SolverSpec(
+            rtol=sv.rtol if sv.rtol is not None else spec.default_rtol(sv.method),
+            max_step_s=sv.max_step,
+            method=sv.method,
+        ),
     )
 
 
