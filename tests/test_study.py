@@ -352,3 +352,60 @@ def test_a_changed_constraint_is_judged_again_on_resume_without_flying(tmp_path)
     # the mass model is part of a variant's identity: adding it flies the variants again
     p.write_text(TINY + '\n[mass]\ntrim_ballast = "5 kg"\n', encoding="utf-8")
     assert run_study(p, out=out, jobs=1).flown == 4
+
+
+# ------------------------------------------------------------------ the quick load (issue 12)
+
+
+def _rows_without_clock(path):
+    """The stored rows by variant, without the wall-clock time (the one column that differs
+    from run to run), as JSON text so that NaN equals NaN."""
+    out = {}
+    for r in read_table(path, raw=True):
+        r = {k: v for k, v in r.items() if k != "wall_time_s"}
+        out[r["variant_id"]] = json.dumps(r, sort_keys=True)
+    return out
+
+
+FAILING = (
+    TINY.replace(
+        'key = "thruster.pylon.gap"\nvalues = ["45 mm", "50 mm"]',
+        'key = "thruster.pylon.pole_height"\nvalues = ["50 mm", "400 mm"]',
+    )
+    + '\n[mass]\nmagnets = "blocks"\ntrim_ballast = "1000 kg"\n'
+)
+
+
+@pytest.mark.parametrize(
+    ("text", "stages"),
+    [(STAGES, ("sweep", "uncertainty")), (FAILING, ("sweep",))],
+    ids=["vessel-and-scenario-settings", "failed-variants"],
+)
+def test_the_quick_load_gives_the_table_of_the_full_load(tmp_path, monkeypatch, text, stages):
+    # the runner before issue 12 loaded every variant from its files (load_variant), twice with
+    # the mass model; the quick load must give the very same rows, errors included
+    from sim.analysis.study import evaluate as ev
+
+    p = _write(tmp_path, text)
+    full_loads = []
+    real = ev.load_variant
+    monkeypatch.setattr(ev, "load_variant", lambda *a: full_loads.append(a) or real(*a))
+    quick = run_study(p, out=tmp_path / "quick.h5", jobs=1, stages=stages)
+    if text is STAGES:  # files read for the base design's parts only, not for every variant
+        assert len(full_loads) <= 1
+    monkeypatch.setattr(ev, "_LEGACY_LOAD", True)
+    full = run_study(p, out=tmp_path / "full.h5", jobs=1, stages=stages)
+    a, b = _rows_without_clock(quick.out_path), _rows_without_clock(full.out_path)
+    assert quick.flown == full.flown == len(a) > 0
+    assert a == b
+    if text is FAILING:  # both paths met the refused magnet
+        assert sum('"ok": false' in r for r in a.values()) == 2
+
+
+def test_rows_that_come_back_together_are_all_kept_from_the_pool(tmp_path):
+    p = _write(tmp_path, TINY)
+    pooled = run_study(p, out=tmp_path / "pool.h5", jobs=2)
+    alone = run_study(p, out=tmp_path / "alone.h5", jobs=1)
+    assert pooled.flown == 4
+    assert _rows_without_clock(pooled.out_path) == _rows_without_clock(alone.out_path)
+    assert not any("_timing" in r for r in read_table(pooled.out_path, raw=True))

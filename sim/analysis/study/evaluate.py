@@ -7,7 +7,10 @@ module-level function of plain, picklable data.
 from __future__ import annotations
 
 import copy
+import dataclasses
+import json
 import math
+import os
 import tempfile
 import time
 import traceback
@@ -20,12 +23,34 @@ from sim.analysis.variants import apply_settings, render_toml, variant_vessel_da
 from sim.engine.plant import water_properties
 from sim.engine.spec import DisplacementHullSpec, SubmergedHullSpec, VesselSpec
 from sim.flight import fly
-from sim.io.files import LoadedScenario, load_scenario, read_toml
+from sim.io.checks import scenario_problems
+from sim.io.files import (
+    LoadedScenario,
+    LoadedVessel,
+    load_scenario,
+    read_toml,
+    validate_vessel_data,
+)
+from sim.io.seam import vessel_spec
 from sim.physics import mass as pm
 from sim.physics.battery import CELL_SETS
 from sim.physics.magnets import NDFEB_GRADES
 
-__all__ = ["Job", "PartsMass", "derived_outputs", "evaluate", "parts_mass", "split_settings"]
+__all__ = [
+    "TIMING_KEY",
+    "Job",
+    "PartsMass",
+    "derived_outputs",
+    "evaluate",
+    "parts_mass",
+    "quick_load",
+    "split_settings",
+]
+
+
+TIMING_KEY = "_timing"
+"""Key of a row, as :func:`evaluate` returns it, holding the seconds spent loading (``load_s``,
+the mass model included) and flying (``fly_s``); the runner removes it before keeping the row."""
 
 
 @dataclass(frozen=True)
@@ -57,14 +82,35 @@ def split_settings(settings):
     return v, s
 
 
+def _stamp(path: str) -> tuple[int, int]:
+    """(mtime in ns, size in bytes) of a file, so that a cached copy of an edited file is not
+    used (0, 0 when it cannot be read: the loader then reports the problem)."""
+    try:
+        st = os.stat(path)
+    except OSError:
+        return (0, 0)
+    return (st.st_mtime_ns, st.st_size)
+
+
 @lru_cache(maxsize=8)
-def _vessel_data(path: str) -> dict:
+def _vessel_data_at(path: str, stamp: tuple[int, int]) -> dict:
     return variant_vessel_data(path)
 
 
 @lru_cache(maxsize=8)
-def _scenario_data(path: str) -> dict:
+def _scenario_data_at(path: str, stamp: tuple[int, int]) -> dict:
     return read_toml(Path(path))[0]
+
+
+def _vessel_data(path: str) -> dict:
+    """The vessel file's data (``extends`` merged), read once per process while it is unchanged
+    (callers copy before changing it: :func:`~sim.analysis.variants.apply_settings` does)."""
+    return _vessel_data_at(path, _stamp(path))
+
+
+def _scenario_data(path: str) -> dict:
+    """The scenario file's data, read once per process while it is unchanged (do not change)."""
+    return _scenario_data_at(path, _stamp(path))
 
 
 def vessel_path_of(scenario_path: str, vessel_path: str | None) -> str:
@@ -91,6 +137,113 @@ def load_variant(
         p = Path(tmp) / Path(scenario_path).name
         p.write_text(render_toml(sdata), encoding="utf-8")
         return load_scenario(p, vessel_overrides=vdata, vessel_path=vpath)
+
+
+# ------------------------------------------------------------------ the quick load
+#
+# A study flies hundreds of variants of one scenario and one vessel. :func:`load_variant` reads
+# and checks both files for each (and the mass model loads each variant twice). The quick load
+# below reads the scenario once per process and per distinct set of scenario settings (with the
+# base vessel: the scenario's own checks), and for each variant only applies the settings to the
+# parsed vessel data, validates the vessel and runs the checks that pair the scenario with that
+# vessel. Warnings are not worked out (a study keeps none). Anything it cannot do exactly like
+# load_variant (a base that does not load, a variant that fails a check) is left to
+# load_variant, so every error a variant's row holds is the one the full load gives.
+
+_LEGACY_LOAD = False
+"""True: every variant is loaded by :func:`load_variant` (the runner before the quick load; the
+tests compare the two)."""
+
+
+@dataclass(frozen=True)
+class _ScenarioParts:
+    """What every variant of a scenario (with given scenario settings) shares."""
+
+    loaded: LoadedScenario
+    data: dict
+    file: str
+    rho_kg_m3: float
+
+
+_PARTS: dict[tuple, _ScenarioParts | None] = {}
+_PARTS_MAX = 32
+
+
+def _scenario_parts(scenario_path: str, vpath: str, sset: tuple) -> _ScenarioParts | None:
+    """The scenario with its settings, loaded (and checked) with the base vessel; None when
+    that load fails."""
+    try:
+        if not sset:
+            loaded = load_scenario(scenario_path, vessel_path=vpath)
+            data, file = read_toml(Path(scenario_path))[0], str(Path(scenario_path))
+        else:
+            sdata = apply_settings(
+                _scenario_data(scenario_path), sset, f"variant ({scenario_path})"
+            )
+            sdata = copy.deepcopy(sdata)
+            sdata.setdefault("scenario", {})["vessel"] = str(Path(vpath).resolve())
+            with tempfile.TemporaryDirectory(prefix="brinebolt-study-") as tmp:
+                p = Path(tmp) / Path(scenario_path).name
+                p.write_text(render_toml(sdata), encoding="utf-8")
+                loaded = load_scenario(p, vessel_path=vpath)
+                data, file = read_toml(p)[0], str(p)
+    except Exception:  # the full load reports it, variant by variant
+        return None
+    return _ScenarioParts(loaded, data, file, water_properties(loaded.water).rho_kg_m3)
+
+
+def _parts_for(scenario_path: str, vpath: str, sset: tuple) -> _ScenarioParts | None:
+    """:func:`_scenario_parts`, kept per process by file paths, their stamps and the settings."""
+    try:
+        # the settings as text: values may be tables (e.g. a leg's until); types stay distinct
+        text = json.dumps([[k, v] for k, v in sset], sort_keys=True)
+    except (TypeError, ValueError):
+        return None
+    key = (scenario_path, _stamp(scenario_path), vpath, _stamp(vpath), text)
+    if key not in _PARTS:
+        if len(_PARTS) >= _PARTS_MAX:
+            _PARTS.clear()
+        _PARTS[key] = _scenario_parts(scenario_path, vpath, sset)
+    return _PARTS[key]
+
+
+def quick_load(
+    scenario_path: str, vessel_path: str | None, settings, extra_vessel: tuple = ()
+) -> LoadedScenario:
+    """The variant as :func:`load_variant` gives it, for flying (no warnings, no file texts),
+    reading no file once the first variant has been loaded; falls back to load_variant (and
+    its errors) whenever it cannot give the same."""
+    if _LEGACY_LOAD:
+        return load_variant(scenario_path, vessel_path, settings, extra_vessel)
+    try:
+        vpath = vessel_path_of(scenario_path, vessel_path)
+        vset, sset = split_settings(settings)
+        parts = _parts_for(str(scenario_path), vpath, sset)
+        if parts is not None:
+            vdata = apply_settings(
+                _vessel_data(vpath), (*vset, *extra_vessel), f"variant ({vpath})"
+            )
+            vfile = validate_vessel_data(vdata, str(Path(vpath)))
+            problems = scenario_problems(parts.loaded.spec, vfile, parts.data, parts.file)
+            if not any(p.severity == "error" for p in problems):
+                vessel = LoadedVessel(Path(vpath), "", vfile, vessel_spec(vfile))
+                return dataclasses.replace(parts.loaded, vessel=vessel, text="", warnings=[])
+    except Exception:  # the full load below raises the error the row records
+        pass
+    return load_variant(scenario_path, vessel_path, settings, extra_vessel)
+
+
+def _rho(scenario_path: str, vessel_path: str | None, settings, loaded) -> float:
+    """Density of the variant's water [kg/m³] (worked out once per scenario settings)."""
+    if not _LEGACY_LOAD:
+        try:
+            vpath = vessel_path_of(scenario_path, vessel_path)
+            parts = _parts_for(str(scenario_path), vpath, split_settings(settings)[1])
+            if parts is not None and parts.loaded.water == loaded.water:
+                return parts.rho_kg_m3
+        except Exception:  # worked out below
+            pass
+    return water_properties(loaded.water).rho_kg_m3
 
 
 # ------------------------------------------------------------------ mass model
@@ -181,7 +334,7 @@ def apply_mass_model(job: Job, loaded: LoadedScenario) -> tuple[LoadedScenario, 
     spec = loaded.vessel.vessel_spec
     parts = parts_mass(spec, mass)
     delta = parts.total_kg - base.total_kg
-    rho = water_properties(loaded.water).rho_kg_m3
+    rho = _rho(job.scenario_path, job.vessel_path, job.settings, loaded)
     hull = spec.hull
     extra: tuple = ()
     # the vessel mass written in the variant's own file (a setting of vessel.mass wins)
@@ -221,7 +374,7 @@ def apply_mass_model(job: Job, loaded: LoadedScenario) -> tuple[LoadedScenario, 
         "trim_margin_kg": trim.margin_kg,
         "in_trim": 1.0 if trim.in_trim else 0.0,
     }
-    return load_variant(job.scenario_path, job.vessel_path, job.settings, extra), out
+    return quick_load(job.scenario_path, job.vessel_path, job.settings, extra), out
 
 
 # ------------------------------------------------------------------ outputs
@@ -256,6 +409,7 @@ def evaluate(job: Job) -> dict:
     and derived output, floats). A failure of any kind is caught and returned as a row with
     its error (never raised), so one bad variant cannot end a study."""
     t0 = time.perf_counter()
+    t_load = t_fly = math.nan
     row = {
         "variant_id": job.variant_id,
         "ok": False,
@@ -265,11 +419,13 @@ def evaluate(job: Job) -> dict:
         "outputs": {},
     }
     try:
-        loaded = load_variant(job.scenario_path, job.vessel_path, job.settings)
+        loaded = quick_load(job.scenario_path, job.vessel_path, job.settings)
         mass_out: dict = {}
         if job.mass is not None:
             loaded, mass_out = apply_mass_model(job, loaded)
+        t_load = time.perf_counter()
         result = fly(loaded, sample_s=job.sample_s).result
+        t_fly = time.perf_counter()
         summary = {k: v for k, v in result.summary.items() if k != "ending_reason"}
         outputs = {k: float(v) for k, v in summary.items()}
         outputs.update(derived_outputs(summary, loaded.vessel.vessel_spec))
@@ -290,5 +446,11 @@ def evaluate(job: Job) -> dict:
         row["error"] = f"{type(exc).__name__}: {text}" or "".join(
             traceback.format_exception_only(exc)
         )
-    row["wall_time_s"] = time.perf_counter() - t0
+    t1 = time.perf_counter()
+    row["wall_time_s"] = t1 - t0
+    # where the time went (the runner takes it off the row: it is not part of the table)
+    row[TIMING_KEY] = {
+        "load_s": (t1 if math.isnan(t_load) else t_load) - t0,
+        "fly_s": 0.0 if math.isnan(t_fly) else t_fly - t_load,
+    }
     return row

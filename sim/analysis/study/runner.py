@@ -11,12 +11,13 @@ from __future__ import annotations
 import json
 import math
 import os
+import time
 from collections.abc import Callable, Sequence
-from concurrent.futures import ProcessPoolExecutor, as_completed
+from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
 from pathlib import Path
 
 from sim.analysis.study.design import variant_id
-from sim.analysis.study.evaluate import Job, evaluate
+from sim.analysis.study.evaluate import TIMING_KEY, Job, evaluate
 from sim.analysis.study.store import StudyStore
 from sim.io.study_schema import ConstraintSpec
 
@@ -98,6 +99,9 @@ class StudyRunner:
         self._own_client = False
         self.flown = 0
         """Variants actually flown by this runner (not found in the table)."""
+        self.timing = {"load_s": 0.0, "fly_s": 0.0, "write_s": 0.0}
+        """Seconds summed over the variants flown: loading them (the mass model included) and
+        flying them (in the workers), and keeping their rows (in this process)."""
         for row in store.rows.values():  # the constraints may have changed since they flew
             judge(row, self.constraints, self.constraint_columns)
 
@@ -157,16 +161,23 @@ class StudyRunner:
                 todo[j.variant_id] = j
         total, done = len(todo), 0
 
-        def finish(row: dict, job: Job) -> None:
+        def finish(results: Sequence[tuple[dict, Job]]) -> None:
+            """Keep rows that came back (one journal write for them all), then report each."""
             nonlocal done
-            row["stage"] = stage
-            row["inputs"] = [list(kv) for kv in job.settings]
-            judge(row, self.constraints, self.constraint_columns)
-            self.store.add(row)
-            self.flown += 1
-            done += 1
-            if self.progress:
-                self.progress(done, total, row)
+            t0 = time.perf_counter()
+            for row, job in results:
+                for k, v in (row.pop(TIMING_KEY, None) or {}).items():
+                    self.timing[k] += v
+                row["stage"] = stage
+                row["inputs"] = [list(kv) for kv in job.settings]
+                judge(row, self.constraints, self.constraint_columns)
+            self.store.add_many([row for row, _job in results])
+            self.timing["write_s"] += time.perf_counter() - t0
+            for row, _job in results:
+                self.flown += 1
+                done += 1
+                if self.progress:
+                    self.progress(done, total, row)
 
         pending = list(todo.values())
         if pending and self.cluster is not None:
@@ -178,13 +189,20 @@ class StudyRunner:
             )
             by_key = {f.key: j for f, j in zip(futures, pending, strict=True)}
             for fut in dask_completed(futures):
-                finish(fut.result(), by_key[fut.key])
+                finish([(fut.result(), by_key[fut.key])])
         elif pending and (self.jobs == 1 or len(pending) == 1):
             for j in pending:
-                finish(evaluate(j), j)
+                finish([(evaluate(j), j)])
         elif pending:
             pool = self._local()
-            futures = {pool.submit(evaluate, j): j for j in pending}
-            for fut in as_completed(futures):
-                finish(fut.result(), futures[fut])
+            futures = {pool.submit(evaluate, j): (i, j) for i, j in enumerate(pending)}
+            waiting = set(futures)
+            while waiting:
+                # every row that has come back is kept at once, in one journal write
+                ready, waiting = wait(waiting, return_when=FIRST_COMPLETED)
+                ready = sorted(ready, key=lambda f: futures[f][0])
+                good = [(f.result(), futures[f][1]) for f in ready if f.exception() is None]
+                finish(good)
+                for f in ready:
+                    f.result()  # a worker that died: raised once the others are kept
         return [self.store.get(j.variant_id) for j in jobs]

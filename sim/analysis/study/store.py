@@ -87,7 +87,8 @@ class StudyStore:
         Keep the rows already on disk (the file and its journal); otherwise start afresh.
     snapshot_s : float
         Least time between two rewrites of the HDF5 file [s] (the journal holds every row at
-        once whatever this is).
+        once whatever this is); never less than 20 times the last rewrite took, so that
+        rewriting a big table stays a small part of the study's time.
     """
 
     def __init__(
@@ -106,6 +107,7 @@ class StudyStore:
         self.rows: dict[str, dict] = {}
         self.snapshot_s = snapshot_s
         self._last = 0.0
+        self._wait = snapshot_s
         self._dirty = False
         journal = _journal_path(self.path)
         if resume:
@@ -134,20 +136,33 @@ class StudyStore:
 
     def add(self, row: dict) -> None:
         """Keep a finished row: in memory, in the journal at once, in the file soon."""
-        self.rows[row["variant_id"]] = row
-        self._journal.write(json.dumps(row, ensure_ascii=False, default=_json_default) + "\n")
+        self.add_many([row])
+
+    def add_many(self, rows: Sequence[dict]) -> None:
+        """Keep finished rows: in memory, in the journal at once (one write and one sync for
+        them all), in the file soon."""
+        if not rows:
+            return
+        lines = []
+        for row in rows:
+            self.rows[row["variant_id"]] = row
+            lines.append(json.dumps(row, ensure_ascii=False, default=_json_default) + "\n")
+        self._journal.write("".join(lines))
         self._journal.flush()
         os.fsync(self._journal.fileno())
         self._dirty = True
-        if time.monotonic() - self._last >= self.snapshot_s:
+        if time.monotonic() - self._last >= self._wait:
             self.snapshot()
 
     def snapshot(self) -> None:
         """Rewrite the HDF5 file from the rows (tmp file + atomic rename)."""
+        t0 = time.monotonic()
         tmp = self.path.with_name(self.path.name + ".tmp")
         write_table(tmp, list(self.rows.values()), self.columns, self.meta)
         os.replace(tmp, self.path)
-        self._last = time.monotonic()
+        now = time.monotonic()
+        self._wait = max(self.snapshot_s, 20.0 * (now - t0))
+        self._last = now
         self._dirty = False
 
     def close(self) -> None:

@@ -309,6 +309,10 @@ class StudyResult:
     tornado_base: float = math.nan
     flown: int = 0
     csv_path: Path | None = None
+    timing: dict[str, float] = field(default_factory=dict)
+    """Seconds summed over the variants flown: ``load_s`` (reading and checking a variant, the
+    mass model included), ``fly_s`` (the mission) in the workers, ``write_s`` (keeping the
+    rows) in this process."""
 
     @property
     def rows(self) -> list[dict]:
@@ -714,6 +718,7 @@ def run_study(
                     st, runner, design, spec.sensitivity.output
                 )
         result.flown = runner.flown
+        result.timing = dict(runner.timing)
     except BaseException:
         store.abandon()
         raise
