@@ -409,3 +409,38 @@ def test_rows_that_come_back_together_are_all_kept_from_the_pool(tmp_path):
     assert pooled.flown == 4
     assert _rows_without_clock(pooled.out_path) == _rows_without_clock(alone.out_path)
     assert not any("_timing" in r for r in read_table(pooled.out_path, raw=True))
+
+
+def test_an_edited_vessel_file_is_read_again_by_the_same_process(tmp_path, monkeypatch):
+    # the quick load keeps the parsed files per process, by path and modification time
+    import os
+
+    from sim.analysis.study import evaluate as ev
+
+    vessel = tmp_path / "drone.toml"
+    text = (ROOT / "vessels" / "glasswort-drone.toml").read_text(encoding="utf-8")
+    vessel.write_text(text, encoding="utf-8")
+    scenario = tmp_path / "hold.toml"
+    scenario.write_text(
+        Path(HOLD)
+        .read_text(encoding="utf-8")
+        .replace("../../vessels/glasswort-drone.toml", vessel.name),
+        encoding="utf-8",
+    )
+    study = _write(tmp_path, TINY.replace(HOLD, scenario.as_posix()))
+    before = run_study(study, out=tmp_path / "a.h5", jobs=1, stages=("sweep",))
+    vessel.write_text(text.replace('mass = "165 kg"', 'mass = "185 kg"'), encoding="utf-8")
+    st = vessel.stat()
+    os.utime(vessel, ns=(st.st_atime_ns, st.st_mtime_ns + 1_000_000_000))
+    after = run_study(study, out=tmp_path / "b.h5", jobs=1, stages=("sweep",))
+    monkeypatch.setattr(ev, "_LEGACY_LOAD", True)
+    full = run_study(study, out=tmp_path / "c.h5", jobs=1, stages=("sweep",))
+    assert _rows_without_clock(after.out_path) == _rows_without_clock(full.out_path)
+    # and the edit shows in the outputs
+    a = {r["variant_id"]: r for r in read_table(before.out_path)}
+    b = {r["variant_id"]: r for r in read_table(after.out_path)}
+    assert a.keys() == b.keys()
+    assert any(
+        a[k]["distance_m"] != b[k]["distance_m"] or a[k]["h2_mol_per_h"] != b[k]["h2_mol_per_h"]
+        for k in a
+    )

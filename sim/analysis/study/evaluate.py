@@ -321,8 +321,11 @@ def parts_mass(vessel: VesselSpec, mass: dict) -> PartsMass:
 
 
 @lru_cache(maxsize=8)
-def _base_parts(scenario_path: str, vessel_path: str | None, mass_items: tuple) -> PartsMass:
-    """Parts of the vessel file as written (the design whose mass the file gives)."""
+def _base_parts(
+    scenario_path: str, vessel_path: str | None, mass_items: tuple, stamps: tuple = ()
+) -> PartsMass:
+    """Parts of the vessel file as written (the design whose mass the file gives); ``stamps``
+    (of both files) only key the cache, so that an edited file is read again."""
     loaded = load_variant(scenario_path, vessel_path, ())
     return parts_mass(loaded.vessel.vessel_spec, dict(mass_items))
 
@@ -330,7 +333,9 @@ def _base_parts(scenario_path: str, vessel_path: str | None, mass_items: tuple) 
 def apply_mass_model(job: Job, loaded: LoadedScenario) -> tuple[LoadedScenario, dict]:
     """Reload the variant with the mass the model gives it; returns it and the mass outputs."""
     mass = job.mass or {}
-    base = _base_parts(job.scenario_path, job.vessel_path, tuple(sorted(mass.items())))
+    vpath = vessel_path_of(job.scenario_path, job.vessel_path)
+    stamps = (_stamp(str(job.scenario_path)), _stamp(vpath))
+    base = _base_parts(job.scenario_path, job.vessel_path, tuple(sorted(mass.items())), stamps)
     spec = loaded.vessel.vessel_spec
     parts = parts_mass(spec, mass)
     delta = parts.total_kg - base.total_kg
