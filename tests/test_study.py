@@ -444,3 +444,63 @@ def test_an_edited_vessel_file_is_read_again_by_the_same_process(tmp_path, monke
         a[k]["distance_m"] != b[k]["distance_m"] or a[k]["h2_mol_per_h"] != b[k]["h2_mol_per_h"]
         for k in a
     )
+
+
+KILLED = """
+import sys
+from sim.analysis.study import run_study
+
+def progress(stage, done, total, row):
+    print(row["variant_id"], flush=True)  # after its row was synced to the journal
+
+run_study(sys.argv[1], out=sys.argv[2], jobs=2, progress=progress)
+"""
+
+
+def test_a_killed_study_keeps_every_row_it_reported(tmp_path):
+    # rows that come back from the pool together share one journal write: none of the rows
+    # reported before a SIGKILL (of the runner and its workers) may be lost
+    import os
+    import signal
+    import subprocess
+    import sys
+
+    text = TINY.replace(
+        'values = ["45 mm", "50 mm"]', 'values = ["44 mm", "46 mm", "48 mm", "50 mm"]'
+    )
+    p = _write(tmp_path, text)
+    out = tmp_path / "k.h5"
+    script = tmp_path / "k.py"
+    script.write_text(KILLED, encoding="utf-8")
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    proc = subprocess.Popen(
+        [sys.executable, str(script), str(p), str(out)],
+        stdout=subprocess.PIPE,
+        text=True,
+        env=env,
+        start_new_session=True,
+    )
+    reported = []
+    try:
+        for line in proc.stdout:
+            reported.append(line.strip())
+            if len(reported) == 3:
+                os.killpg(proc.pid, signal.SIGKILL)
+                break
+    finally:
+        if proc.poll() is None:
+            os.killpg(proc.pid, signal.SIGKILL)
+        proc.wait(timeout=30)
+        proc.stdout.close()
+    assert len(reported) == 3
+    journal = out.with_name("k.h5.journal")
+    kept = set()
+    for ln in journal.read_text().splitlines():
+        try:
+            kept.add(json.loads(ln)["variant_id"])
+        except json.JSONDecodeError:  # a line torn by the kill: that variant flies again
+            pass
+    assert set(reported) <= kept
+    resumed = run_study(p, out=out, jobs=2)
+    assert resumed.flown == 8 - len(kept)
+    assert len(read_table(out)) == 8
