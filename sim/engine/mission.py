@@ -21,6 +21,7 @@ import numpy as np
 import simpy
 
 from sim.engine.conditions import (
+    AnodeSpent,
     BatteryTemperatureAbove,
     CellVoltageBelow,
     Condition,
@@ -46,7 +47,7 @@ from sim.engine.model import (
     VesselModel,
     initial_state,
 )
-from sim.engine.plant import Plant
+from sim.engine.plant import Plant, anode_spent_charge_c
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
@@ -194,7 +195,43 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
             None,
             f,
         ),
+        **_anode_channel(plant),
     }
+
+
+def _anode_channel(plant: Plant) -> dict:
+    """The anode channel, only when a design tracks its sacrificial anode mass (so the logs of
+    other vessels keep their channels)."""
+    if not any(u.anode_mass_kg is not None for u in plant.thrusters):
+        return {}
+    return {
+        "anode_mass_left_kg": (
+            "kg",
+            "sacrificial anode metal left on one unit of each design, m0 − Q/capacity with Q the "
+            "charge through that unit's anodes (design capacity; NaN for a design without a "
+            "tracked sacrificial anode)",
+            len(plant.thrusters),
+            "float64",
+        )
+    }
+
+
+MAY_BE_NAN = ("anode_mass_left_kg",)
+"""Channels whose NaN is a value (not tracked), not a model failure."""
+
+
+def anode_mass_left(plant: Plant, lay, ys: np.ndarray) -> np.ndarray:
+    """Anode metal left on one unit of each design [kg] at the states ``ys`` (shape (state
+    size, n)): m0 − m_per_C·Q, never below 0, with the design's own charge accumulator
+    (:func:`sim.physics.electrodes.consumed_mass_kg` is linear in the charge); NaN for a design
+    without a tracked anode. Shape (n, designs)."""
+    out = np.full((ys.shape[1], len(plant.thrusters)), np.nan)
+    for k, i in lay.i_anode.items():
+        u = plant.thrusters[k]
+        usable = u.anode_utilisation * u.anode_mass_kg
+        per_c = usable / anode_spent_charge_c(u)
+        out[:, k] = np.maximum(u.anode_mass_kg - per_c * ys[i], 0.0)
+    return out
 
 
 def _ratio(a: float, b: float) -> float:
@@ -311,6 +348,11 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         "drive_saturated": flags[:, 1],
         "power_folded": flags[:, 2],
         "speed_short_m_s": short,
+        **(
+            {"anode_mass_left_kg": anode_mass_left(p, lay, ys)}
+            if any(u.anode_mass_kg is not None for u in p.thrusters)
+            else {}
+        ),
     }
 
 
@@ -571,6 +613,8 @@ class MissionRunner:
         self.atol[lay.acc["h2_mol"]] = self.atol[lay.acc["cl2_mol"]] = 1e-9
         self.atol[lay.acc["o2_mol"]] = 1e-9
         self.atol[lay.acc["charge_c"]] = 1e-4
+        for i in lay.i_anode.values():
+            self.atol[i] = 1e-4
 
     # ------------------------------------------------------------------ conditions
     def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
@@ -614,6 +658,8 @@ class MissionRunner:
             out.append(
                 _Armed("stop", MagnetGradeLimit(), -1, "magnet temperature limit (grade maximum)")
             )
+        if self.model.lay.i_anode:
+            out.append(_Armed("stop", AnodeSpent(), -1, "sacrificial anode spent"))
         if lim.duct_temperature_rise_max_k is not None:
             out.append(
                 _Armed(
@@ -762,7 +808,7 @@ class MissionRunner:
         self._last_ty = (float(ts[0]), ys[:, 0])
         block = sample_block(self.model, ts, ys, self.m.leg_index)
         for k, v in block.items():
-            if v.dtype.kind == "f" and not np.isfinite(v).all():
+            if v.dtype.kind == "f" and k not in MAY_BE_NAN and not np.isfinite(v).all():
                 bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
                 raise SolverFailure(
                     f"non-finite value of {k} ({v[bad].tolist()})",
@@ -845,6 +891,7 @@ class MissionRunner:
         names += ["RC voltage 1", "RC voltage 2", "battery temperature"]
         names += [f"magnet temperature of {u.name!r}" for u in self.plant.thrusters]
         names += ["speed-hold integral", *ACC_NAMES]
+        names += [f"anode charge of {self.plant.thrusters[k].name!r}" for k in lay.i_anode]
         return names[: lay.size]
 
     def _checked_rhs(self, t, y):

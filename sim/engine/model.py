@@ -8,6 +8,8 @@ State vector (all SI, temperatures in °C)::
     2  distance through water [m]          then, in order:
     3  state of charge [-]                   speed-hold integral term [V]
     4  RC voltage 1 [V]                      accumulated quantities (ACC_NAMES)
+                                             charge through one unit's sacrificial
+                                             anodes, per design that tracks one [C]
     5  RC voltage 2 [V]
     6  battery temperature [°C]
 
@@ -84,6 +86,13 @@ class Layout:
         self.i_acc = self.i_pi + 1
         self.acc = {name: self.i_acc + k for k, name in enumerate(ACC_NAMES)}
         self.size = self.i_acc + len(ACC_NAMES)
+        # per design with a tracked sacrificial anode: ∫|I_anodes| dt of one unit [C]
+        # (only then: a plant without one keeps its state vector, and its logs, unchanged)
+        self.i_anode: dict[int, int] = {}
+        for k, u in enumerate(plant.thrusters):
+            if u.sacrificial_anode is not None and u.anode_mass_kg is not None:
+                self.i_anode[k] = self.size
+                self.size += 1
 
 
 def initial_state(
@@ -192,6 +201,15 @@ class VesselModel:
         if u.wake_fraction != 0.0:
             speed = speed * (1.0 - u.wake_fraction)
         n = u.series_factor
+        if u.sacrificial_anode is not None:
+            op = self._point_n(kc, u, speed, volts, amps, n)
+            # the anode metal dissolves instead of evolving gas: no O2 (nor Cl2) at the anode;
+            # the cathode's hydrogen stays
+            return op._replace(o2_mol_s=0.0, cl2_mol_s=0.0)
+        return self._point_n(kc, u, speed, volts, amps, n)
+
+    @staticmethod
+    def _point_n(kc, u, speed, volts, amps, n):
         if n == 1:
             return scalar_point(
                 kc,
@@ -529,4 +547,8 @@ class VesselModel:
         dy[a["o2_mol"]] = s.o2
         dy[a["energy_busbar_j"]] = s.busbar_w
         dy[a["energy_hull_interaction_j"]] = s.interaction_w
+        for k, i in lay.i_anode.items():
+            # every channel's anode of a unit passes the parallel-equivalent current
+            u = p.thrusters[k]
+            dy[i] = abs(float(s.ops[k].current_a)) * u.series_factor
         return dy
