@@ -196,6 +196,27 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
             f,
         ),
         **_anode_channel(plant),
+        **_water_channels(plant),
+    }
+
+
+def _water_channels(plant: Plant) -> dict:
+    """The water channels, only when the water or its current changes along the route or with
+    time (a run in one body of water keeps its channels)."""
+    if not plant.water_varies:
+        return {}
+    f = "float64"
+    return {
+        "salinity": ("1", "practical salinity SP (PSS-78) at the vessel", None, f),
+        "water_temperature_c": ("degC", "in-situ water temperature at the vessel", None, f),
+        "conductivity_s_m": ("S/m", "electrical conductivity of the water at the vessel", None, f),
+        "water_current_m_s": (
+            "m/s",
+            "water current along the track at the vessel (+ with the vessel): steady, route and "
+            "tide",
+            None,
+            f,
+        ),
     }
 
 
@@ -276,6 +297,7 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     sc = np.empty((n, len(_SCALAR_FIELDS)))
     li = np.empty((len(_LIST_FIELDS) + 4, n, nthr))
     flags = np.empty((n, 3), dtype=np.int64)
+    wat = np.empty((n, 4))
     chg = np.empty(n)
     short = np.empty(n)
     c = model.control
@@ -294,6 +316,8 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
         flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
         short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
+        w = s.water
+        wat[j] = (w.sp, w.t_c, w.sigma_s_m, s.current_m_s)
     col = dict(zip(_SCALAR_FIELDS, sc.T, strict=True))
     per = dict(zip(_LIST_FIELDS, li, strict=False))
     speed = ys[I_V].copy()
@@ -302,7 +326,9 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         "time_s": np.array(ts, dtype=float),
         "leg_index": np.full(n, leg_index, dtype=np.int64),
         "speed_through_water_m_s": speed,
-        "speed_over_ground_m_s": speed + p.water_current_m_s,
+        "speed_over_ground_m_s": speed + wat[:, 3]
+        if p.water_varies
+        else speed + p.water_current_m_s,
         "distance_m": ys[I_XG].copy(),
         "distance_through_water_m": ys[I_XW].copy(),
         "thrust_n": per["thrust_n"],
@@ -351,6 +377,16 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         **(
             {"anode_mass_left_kg": anode_mass_left(p, lay, ys)}
             if any(u.anode_mass_kg is not None for u in p.thrusters)
+            else {}
+        ),
+        **(
+            {
+                "salinity": wat[:, 0].copy(),
+                "water_temperature_c": wat[:, 1].copy(),
+                "conductivity_s_m": wat[:, 2].copy(),
+                "water_current_m_s": wat[:, 3].copy(),
+            }
+            if p.water_varies
             else {}
         ),
     }
@@ -918,6 +954,8 @@ class MissionRunner:
         if p.pack.n_rc > 1:
             idx.append(I_RC2)
         idx.append(I_TB)
+        if p.route is not None and p.route.axis == "distance":
+            idx.append(I_XG)  # the water, and so the thrust, depends on the distance run
         idx += [lay.i_mag + k for k, u in enumerate(p.thrusters) if u.alpha_br_per_k != 0.0]
         if self.model.control.mode == "speed":
             idx.append(lay.i_pi)

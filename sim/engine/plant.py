@@ -24,6 +24,7 @@ from sim.engine.spec import (
 from sim.physics import battery as bat
 from sim.physics import electrochem, electrodes, fields, hull, layouts, magnet_gap, magnets
 from sim.physics.errors import ModelRangeError
+from sim.physics.route import RouteWater, TidalCurrent
 from sim.physics.seawater import WaterState, water_state
 from sim.physics.thruster import DuctThruster
 
@@ -115,6 +116,16 @@ class Plant:
     coil_power_w: float = 0.0
     """Part of :attr:`cryocooler_w` drawn by thruster coils [W]: Σ units × (resistive I²R or
     superconducting cryocooler input) of every design."""
+    route: RouteWater | None = None
+    """Water along the route (None: :attr:`water` everywhere); :attr:`water` is then the water
+    at the route's start."""
+    tide: TidalCurrent | None = None
+    """Tidal current along the track (None: none)."""
+
+    @property
+    def water_varies(self) -> bool:
+        """True when the water or its current changes along the route or with time."""
+        return self.route is not None or self.tide is not None
 
     @property
     def total_mass_kg(self) -> float:
@@ -127,8 +138,42 @@ class Plant:
 
 
 def water_properties(water: Water) -> WaterState:
-    """Water properties at the vessel's depth (TEOS-10 via :mod:`sim.physics.seawater`)."""
+    """Water properties at the vessel's depth (TEOS-10 via :mod:`sim.physics.seawater`); with a
+    route, those at its start."""
+    if water.route is not None:
+        r = water.route
+        return water_state(r.salinity[0], r.temperature_c[0], water.depth_m * DBAR_PER_M)
     return water_state(water.salinity, water.temperature_c, water.depth_m * DBAR_PER_M)
+
+
+def route_water(water: Water) -> RouteWater | None:
+    """The route table of a body of water as :class:`sim.physics.route.RouteWater` (None
+    without one)."""
+    r = water.route
+    if r is None:
+        return None
+    return RouteWater(
+        axis=r.axis,
+        stations=tuple(r.stations),
+        sp=tuple(r.salinity),
+        t_c=tuple(r.temperature_c),
+        current_m_s=tuple(r.current_m_s),
+        p_dbar=water.depth_m * DBAR_PER_M,
+    )
+
+
+def tidal_current(water: Water) -> TidalCurrent | None:
+    """The tide of a body of water as :class:`sim.physics.route.TidalCurrent` (None without
+    one): the peak with the vessel at t_peak is the phase φ = 2π·t_peak/T."""
+    td = water.tide
+    if td is None:
+        return None
+    return TidalCurrent(
+        amplitude_m_s=td.amplitude_m_s,
+        phase_rad=2.0 * math.pi * td.peak_time_s / td.period_s,
+        mean_m_s=td.mean_m_s,
+        period_s=td.period_s,
+    )
 
 
 def hull_model(spec: HullSpec):
@@ -624,4 +669,6 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         hull_max_speed_m_s=vmax_hull,
         hull_max_froude=fn_max,
         coil_power_w=coil_w,
+        route=route_water(water),
+        tide=tidal_current(water),
     )

@@ -29,12 +29,14 @@ __all__ = [
     "LimitsSpec",
     "MagnetBlocksSpec",
     "MissionSpec",
+    "RouteSpec",
     "ScheduleSpec",
     "SolverSpec",
     "StartSpec",
     "SubmergedHullSpec",
     "TableHullSpec",
     "ThrusterSpec",
+    "TideSpec",
     "TriggerSpec",
     "VesselSpec",
     "Water",
@@ -42,6 +44,38 @@ __all__ = [
 ]
 
 # --------------------------------------------------------------------------- water
+
+
+@dataclass(frozen=True)
+class RouteSpec:
+    """Salinity, temperature and (optionally) a current at stations along the route; linear in
+    between, held at the end values beyond (:mod:`sim.physics.route`)."""
+
+    axis: str
+    """'distance' (stations in metres over ground from the start) or 'time' (seconds)."""
+    stations: tuple[float, ...]
+    """Station positions, strictly increasing [m or s]."""
+    salinity: tuple[float, ...]
+    """Practical salinity SP at the stations [-]."""
+    temperature_c: tuple[float, ...]
+    """In-situ temperature at the stations [°C]."""
+    current_m_s: tuple[float, ...] = ()
+    """Current along the track at the stations [m/s] (+ with the vessel); () for none."""
+
+
+@dataclass(frozen=True)
+class TideSpec:
+    """A tidal current along the track that turns with time: u = mean + A·cos(2π(t − t_peak)/T)."""
+
+    amplitude_m_s: float
+    """Amplitude A [m/s] (≥ 0)."""
+    period_s: float = 44714.16439359889
+    """Period T [s]; default the M2 tide, 12.4206 h (Doodson 1921;
+    :data:`sim.physics.route.M2_PERIOD_S`)."""
+    peak_time_s: float = 0.0
+    """Mission time at which the current runs at +A (with the vessel) [s]."""
+    mean_m_s: float = 0.0
+    """Residual current [m/s]."""
 
 
 @dataclass(frozen=True)
@@ -56,6 +90,12 @@ class Water:
     """Depth of the vessel below the surface [m] (sets the sea pressure)."""
     current_m_s: float = 0.0
     """Steady water current along the track [m/s], positive when it flows with the vessel."""
+    route: RouteSpec | None = None
+    """Water along the route: its salinity and temperature replace ``salinity`` and
+    ``temperature_c`` (the values at the route's start are the plant's reference water); its
+    current adds to ``current_m_s``."""
+    tide: TideSpec | None = None
+    """A tidal current (adds to the others)."""
 
 
 # --------------------------------------------------------------------------- vessel

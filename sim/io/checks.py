@@ -538,7 +538,7 @@ def scenario_warnings(
     """Warnings that need the built plant (e.g. boiling water at bollard)."""
     out = []
     try:
-        plant = plant_of(vessel_spec(vessel), water(spec.water))
+        plant = plant_of(vessel_spec(vessel), water(spec.water, spec.route, spec.tide))
     except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
     for i, leg in enumerate(spec.leg):

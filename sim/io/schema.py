@@ -1041,6 +1041,89 @@ class WaterSpec(_Strict):
     ground; speeds (speed legs, speed conditions) are through the water."""
 
 
+class RouteTable(_Strict):
+    """[route]: the water along the route, as a table of stations (optional). Between stations
+    the values are interpolated linearly; before the first and after the last they are held.
+    The route's salinity and temperature replace those of [water] (which then only give the
+    depth and a steady current); its current adds to [water]'s current and the [tide]."""
+
+    distance: list[quantity("length", ge=0, le=1e7)] | None = None
+    """Stations by distance over ground from the start, strictly increasing, e.g.
+    ["0 km", "2 km", "6 km"].
+
+    Default: none (give distance or time)."""
+    time: list[quantity("time", ge=0, le=1e8)] | None = None
+    """Stations by mission time, strictly increasing, e.g. ["0 h", "3 h"].
+
+    Default: none (give distance or time)."""
+    salinity: list[number(ge=0, le=42)] = Field(min_length=1)
+    """Practical salinity SP (PSS-78) at each station; with the temperature it sets the
+    conductivity, density and viscosity the thrusters and the hull meet there."""
+    temperature: list[quantity("temperature", ge=-2, le=40)] = Field(min_length=1)
+    """In-situ water temperature at each station; also what the battery and the magnets exchange
+    heat with there."""
+    current: list[quantity("speed", ge=-10, le=10)] | None = None
+    """Current along the track at each station, positive with the vessel (speed over ground =
+    speed through water + current).
+
+    Default: no current from the route."""
+
+    @model_validator(mode="after")
+    def _stations(self):
+        if (self.distance is None) == (self.time is None):
+            raise _bad(
+                "give the stations either by distance or by time; allowed: distance = [...] "
+                "or time = [...], not both",
+                "distance",
+            )
+        axis = "distance" if self.distance is not None else "time"
+        at = self.distance if self.distance is not None else self.time
+        if not at:
+            raise _bad("{axis} has no stations; allowed: one or more", axis, axis=axis)
+        bad = [i for i in range(1, len(at)) if not at[i] > at[i - 1]]
+        if bad:
+            raise _bad(
+                "{axis} must increase strictly, but entry {i} is not above the one before it; "
+                "allowed: an ascending list",
+                axis,
+                axis=axis,
+                i=bad[0],
+            )
+        for k in ("salinity", "temperature", "current"):
+            v = getattr(self, k)
+            if v is not None and len(v) != len(at):
+                raise _bad(
+                    "{k} has {a} entries but {axis} has {b}; allowed: one entry per station",
+                    k,
+                    k=k,
+                    a=len(v),
+                    axis=axis,
+                    b=len(at),
+                )
+        return self
+
+
+class TideTable(_Strict):
+    """[tide]: a tidal current along the track that turns with time (optional):
+    u = mean + amplitude·cos(2π(t − peak_time)/period), positive with the vessel."""
+
+    amplitude: quantity("speed", ge=0, le=10)
+    """Amplitude of the tidal current."""
+    period: quantity("time", gt=0, le=1e7) = 44714.16439359889
+    """Period of the tide.
+
+    Default: 12.42 h, the principal lunar semidiurnal tide M2 (Doodson 1921)."""
+    peak_time: quantity("time", ge=-1e7, le=1e7) = 0.0
+    """Mission time at which the tidal current runs strongest with the vessel (+amplitude); it
+    turns against the vessel a quarter period later. Negative: before the start.
+
+    Default: 0 s (the run starts at that peak)."""
+    mean: quantity("speed", ge=-10, le=10) = 0.0
+    """Residual (mean) current added to the tide.
+
+    Default: 0 m/s."""
+
+
 class StartSpec(_Strict):
     """[start]: the state at time zero."""
 
@@ -1367,6 +1450,14 @@ class ScenarioFile(_Strict):
     """Name of the scenario and the vessel that flies it."""
     water: WaterSpec
     """The body of water."""
+    route: RouteTable | None = None
+    """Salinity, temperature and current along the route.
+
+    Default: none ([water] everywhere)."""
+    tide: TideTable | None = None
+    """A tidal current that turns with time.
+
+    Default: none (no tide)."""
     start: StartSpec = StartSpec()
     """The state at time zero (optional: all defaults)."""
     output: OutputSpec = OutputSpec()
