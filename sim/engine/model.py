@@ -39,10 +39,11 @@ from sim.engine.plant import Plant
 from sim.physics import battery as bat
 from sim.physics.duct_heat import duct_heat
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
+from sim.physics.open_field import hull_friction_change_n, open_field_point, prepare_open_field
 from sim.physics.roots import brent_root as brentq
 from sim.physics.route import route_values, tidal_current_m_s
 from sim.physics.seawater import water_state
-from sim.physics.thruster import U_FLOOR_M_S, prepare_scalar, scalar_point
+from sim.physics.thruster import U_FLOOR_M_S, ScalarPoint, prepare_scalar, scalar_point
 
 I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)
 N_FIXED = 7
@@ -185,8 +186,13 @@ class VesselModel:
     """Water states (and thruster constants) kept for a route [-]."""
 
     def _prepare(self, water) -> list:
-        """The thrusters' constants for one water state."""
-        return [prepare_scalar(u.duct, water) for u in self.plant.thrusters]
+        """The thrusters' constants for one water state (a duct's or an open-field array's)."""
+        return [
+            prepare_scalar(u.duct, water)
+            if u.open_field is None
+            else prepare_open_field(u.open_field, water)
+            for u in self.plant.thrusters
+        ]
 
     def local_water(self, t: float, y: np.ndarray):
         """The water at the vessel and the current along the track: (WaterState, current
@@ -245,10 +251,12 @@ class VesselModel:
         physics solves the parallel equivalent, which has the same power, thrust, losses and
         gas)."""
         kc = self._consts[k]
-        kc.b = b
         u = self.plant.thrusters[k]
         if u.wake_fraction != 0.0:
             speed = speed * (1.0 - u.wake_fraction)
+        if u.open_field is not None:
+            return self._open_field_point(kc, u, speed, b, volts, amps)
+        kc.b = b
         n = u.series_factor
         if u.sacrificial_anode is not None:
             op = self._point_n(kc, u, speed, volts, amps, n)
@@ -256,6 +264,45 @@ class VesselModel:
             # the cathode's hydrogen stays
             return op._replace(o2_mol_s=0.0, cl2_mol_s=0.0)
         return self._point_n(kc, u, speed, volts, amps, n)
+
+    @staticmethod
+    def _open_field_point(kc, u, speed, b, volts, amps):
+        """One open-field array as a :class:`~sim.physics.thruster.ScalarPoint`.
+
+        Ductless, so: thrust = the Lorentz force F on the water (the hull feels F − ΔD: the
+        friction increase ΔD of the accelerated boundary layer is counted like a thrust
+        deduction, see :meth:`_evaluate`); duct velocity = the ship speed (the water passes the
+        array at V0: induced velocity neglected); flow work = F·V0, the Lorentz work on the
+        passing water; no duct friction, no jet (wake) loss within the model; no duct heating
+        (the Joule heat goes into the open sea)."""
+        d = u.duct
+        op = open_field_point(
+            kc,
+            speed,
+            voltage_v=volts,
+            current_a=amps,
+            field_scale=b / u.b_ref_tesla if u.b_ref_tesla != 0.0 else 0.0,
+            electrode_drop_v=d.electrode_drop_v,
+            galvanic_offset_v=d.galvanic_offset_v,
+            chlorine_fraction=d.chlorine_fraction,
+            anodic_gas=u.sacrificial_anode is None,
+        )
+        return ScalarPoint(
+            op.lorentz_force_n,
+            op.current_a,
+            op.voltage_v,
+            speed,
+            op.electrical_power_w,
+            op.joule_loss_w,
+            op.electrode_loss_w,
+            0.0,
+            0.0,
+            op.flow_work_w,
+            0.0,
+            op.h2_mol_s,
+            op.cl2_mol_s,
+            op.o2_mol_s,
+        )
 
     @staticmethod
     def _point_n(kc, u, speed, volts, amps, n):
@@ -418,6 +465,11 @@ class VesselModel:
         """
         end, vmean, vout = [], [], []
         for k, (op, u) in enumerate(zip(s.ops, self.plant.thrusters, strict=True)):
+            if u.open_field is not None:  # no channel ends, no duct for gas to fill
+                end.append(0.0)
+                vmean.append(0.0)
+                vout.append(0.0)
+                continue
             kc = self._consts[k]
             n = u.series_factor
             i_par = float(op.current_a) * n
@@ -487,11 +539,27 @@ class VesselModel:
         thrust, current, volts, rise, jrise = [], [], [], [], []
         joule = electrode = friction = wake = flow = h2 = cl2 = o2 = thr = 0.0
         eff = gross_power = el_heat = 0.0
-        for op, u in zip(ops, p.thrusters, strict=True):
+        for k, (op, u) in enumerate(zip(ops, p.thrusters, strict=True)):
             m = u.units
             thrust.append(op.thrust_n * m)
             current.append(op.current_a * m)
             volts.append(op.voltage_v)
+            if u.open_field is not None:
+                # the hull feels F − ΔD (the boundary-layer friction increase, a deduction)
+                d_drag = hull_friction_change_n(self._consts[k], op.thrust_n, speed)
+                rise.append(0.0)
+                jrise.append(0.0)
+                el_heat += u.overpotential_v * abs(op.current_a) * m
+                joule += op.joule_loss_w * m
+                electrode += op.electrode_loss_w * m
+                flow += op.flow_work_w * m
+                h2 += op.h2_mol_s * m
+                cl2 += op.cl2_mol_s * m
+                o2 += op.o2_mol_s * m
+                thr += op.electrical_power_w * m
+                eff += (op.thrust_n - math.copysign(d_drag, op.thrust_n)) * m
+                gross_power += op.thrust_n * m * speed
+                continue
             heat = duct_heat(
                 max(op.joule_loss_w, 0.0),
                 max(op.friction_loss_w, 0.0),

@@ -273,7 +273,8 @@ class ThrusterSpec:
     """Electromagnet whose mean field sets the field (field_t None)."""
     layout: str = "duct"
     """'duct' (straight rectangular channels), 'stack' (stack_count short channels sharing one
-    magnet array), 'annular', 'ring-of-tubes' or 'helical' (:mod:`sim.physics.layouts`)."""
+    magnet array), 'annular', 'ring-of-tubes' or 'helical' (:mod:`sim.physics.layouts`), or
+    'open-field' (electrode and magnet strips on the hull, :mod:`sim.physics.open_field`)."""
     stack_count: int = 1
     """Stack: number of channels side by side (the stack's n_channels)."""
     inner_radius_m: float | None = None
@@ -297,6 +298,28 @@ class ThrusterSpec:
     tracked."""
     anode_utilisation: float = 0.85
     """Sacrificial anodes: usable share of anode_mass_kg before the anode counts as spent [-]."""
+    strip_pitch_m: float | None = None
+    """Open field: centre distance of neighbouring electrode strips, = that of the magnet
+    strips [m] (:class:`sim.physics.open_field.OpenFieldArray`). For this layout field_t is the
+    magnets' remanence (None: the magnet grade's)."""
+    electrode_width_m: float | None = None
+    """Open field: width of each electrode strip [m]."""
+    strips: int = 2
+    """Open field: number of electrode strips (half anodes, half cathodes)."""
+    magnet_width_m: float | None = None
+    """Open field: width of each magnet strip [m]."""
+    magnet_thickness_m: float | None = None
+    """Open field: thickness of the magnet strips along their magnetisation [m]."""
+    magnet_depth_m: float = 0.0
+    """Open field: magnets' top faces below the wetted surface (hull plating) [m]."""
+    magnet_offset_m: float | None = None
+    """Open field: magnet strip centres from the electrode centres, across the flow [m]; None:
+    half the pitch."""
+    array_position_m: float | None = None
+    """Open field: bow to the middle of the array, along the hull [m] (boundary layer)."""
+    friction_share: float = 0.5
+    """Open field: share κ of the Lorentz force inside the boundary layer that goes to the hull
+    as extra friction [-] (a model assumption)."""
 
 
 @dataclass(frozen=True)

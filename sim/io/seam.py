@@ -159,6 +159,15 @@ def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
         stator_recovery=t.stator_recovery,
         anode_mass_kg=t.anode_mass,
         anode_utilisation=t.anode_utilisation,
+        strip_pitch_m=t.strip_pitch,
+        electrode_width_m=t.electrode_width,
+        strips=t.strips or 2,
+        magnet_width_m=t.magnet_width,
+        magnet_thickness_m=t.magnet_thickness,
+        magnet_depth_m=t.magnet_depth,
+        magnet_offset_m=t.magnet_offset,
+        array_position_m=t.array_position,
+        friction_share=t.friction_share,
     )
 
 
