@@ -118,3 +118,21 @@ def test_route_by_time_and_bad_tables(tmp_path):
     with pytest.raises(InputError) as exc:
         api.load_scenario(write_scenario(tmp_path, legs, extra=both))
     assert "either by distance or by time" in str(exc.value)
+
+
+def test_a_speed_hold_holds_through_freshening_water(tmp_path):
+    route = (
+        '[route]\ndistance = ["0 m", "2 km"]\nsalinity = [34, 6]\n'
+        'temperature = ["14 degC", "18 degC"]'
+    )
+    legs = '[[leg]]\nname = "hold"\nspeed = "1 kn"\nuntil = { distance = "2.5 km" }'
+    out = api.run_scenario(write_scenario(tmp_path, legs, extra=route), write_log=False).result
+    s = out.series
+    late = s["time_s"] > 600
+    v = s["speed_through_water_m_s"][late]
+    # the PI hold keeps 1 kn (0.5144 m/s, common practice) while the conductivity falls about
+    # fivefold: the voltage rises to make up for it
+    assert np.max(np.abs(v - 0.514444)) < 0.02 * 0.514444
+    assert s["conductivity_s_m"][-1] < 0.3 * s["conductivity_s_m"][0]
+    volts = s["thruster_voltage_v"][late, 0]
+    assert volts[-1] > 1.5 * volts[0]

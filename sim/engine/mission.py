@@ -745,17 +745,19 @@ class MissionRunner:
             c = Control(mode="current", setpoint=0.0, derate=m.derate, hotel_w=c.hotel_w)
             note = " (thrust off: coasting to rest)"
         elif c.mode == "speed":
-            self._tune_speed_hold(c, leg, y)
+            self._tune_speed_hold(c, leg, y, t)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
         self.model.invalidate()
         self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}{note}")
         return y
 
-    def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
+    def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray, t: float = 0.0) -> None:
         """Feed-forward from the steady solution at the target speed; PI gains by pole placement
         on the linearised surge equation (critically damped, closed-loop time constant half the
-        open-loop one, at least 2 s), unless the leg gives them."""
+        open-loop one, at least 2 s), unless the leg gives them. The gains are taken in the
+        water at the leg's start (time ``t``, the state's distance); the feed-forward in the
+        plant's reference water (with a route: its start), which the integral term corrects."""
         p = self.plant
         target = c.target
         soc = float(y[I_SOC])
@@ -769,17 +771,17 @@ class MissionRunner:
         yy = y.copy()
         dv = max(1e-3, 1e-3 * target)
         yy[I_V] = target + dv
-        hi = probe.evaluate(0.0, yy)
+        hi = probe.evaluate(t, yy)
         yy[I_V] = max(target - dv, 0.0)
-        lo = probe.evaluate(0.0, yy)
+        lo = probe.evaluate(t, yy)
         damping = (
             (hi.resistance_n - hi.total_thrust_n) - (lo.resistance_n - lo.total_thrust_n)
         ) / (target + dv - max(target - dv, 0.0))
         yy[I_V] = target
         probe.control = Control(mode="voltage", setpoint=ff * 1.01 + 1e-3, hotel_w=c.hotel_w)
-        up = probe.evaluate(0.0, yy)
+        up = probe.evaluate(t, yy)
         probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
-        mid = probe.evaluate(0.0, yy)
+        mid = probe.evaluate(t, yy)
         gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
         if gain <= 1e-9 and ff > 0.0:
             # The thrust does not respond to the command at the feed-forward point: the drive is
@@ -788,7 +790,7 @@ class MissionRunner:
             # loop that chatters once the target becomes reachable (e.g. after a derate); use
             # the mean slope of thrust against command from zero to the feed-forward instead.
             probe.control = Control(mode="voltage", setpoint=0.0, hotel_w=c.hotel_w)
-            zero = probe.evaluate(0.0, yy)
+            zero = probe.evaluate(t, yy)
             gain = (mid.total_thrust_n - zero.total_thrust_n) / ff
         mass = p.total_mass_kg
         damping = max(damping, 1e-6)
