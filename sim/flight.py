@@ -15,7 +15,7 @@ from pathlib import Path
 
 from sim.engine.mission import MissionRunner, RunObserver, RunResult, channel_specs
 from sim.engine.plant import Plant, build_plant
-from sim.engine.summary import SUMMARY_UNITS
+from sim.engine.summary import OPTIONAL_SUMMARY_UNITS, SUMMARY_UNITS
 from sim.io.files import LoadedScenario
 from sim.io.log import LogWriteError, RunLogWriter
 
@@ -145,7 +145,10 @@ def fly(
     try:
         result = runner.run()
         if writer is not None:
-            writer.set_summary(result.summary, {k: v for k, v in SUMMARY_UNITS.items() if v})
+            units = {**SUMMARY_UNITS, **OPTIONAL_SUMMARY_UNITS}
+            writer.set_summary(
+                result.summary, {k: v for k, v in units.items() if v and k in result.summary}
+            )
             log_path = writer.close(result.ending_reason)
     except BaseException as exc:
         if writer is not None and not isinstance(exc, LogWriteError):

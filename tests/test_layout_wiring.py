@@ -209,7 +209,13 @@ def test_layouts_variants_file_flies(capsys):
                  "--jobs", "1"])  # fmt: skip
     out = capsys.readouterr().out
     assert code == 0
-    for label in ("three channels", "one straight duct", "channel stack", "annular thruster"):
+    for label in (
+        "three channels",
+        "one straight duct",
+        "channel stack",
+        "annular thruster",
+        "open-field (ductless)",
+    ):
         assert label in out
 
 

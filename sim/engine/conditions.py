@@ -23,7 +23,6 @@ import numpy as np
 
 from sim.engine.model import I_SOC, I_TB, I_V, I_XG, VesselModel
 from sim.engine.plant import anode_spent_charge_c
-from sim.physics.electrochem import FARADAY_C_MOL
 
 __all__ = [
     "CONDITIONS",
@@ -276,14 +275,10 @@ class AnodeSpent(Condition):
     """A sacrificial anode is spent: the charge through one unit's anodes [C] reaches the charge
     that dissolves the usable share of its mass (a flag condition: ``anode_spent = true``).
 
-    The charge comes from the hydrogen accumulator: every coulomb through a cathode makes
-    1/(2F) mol of H₂, so the cathode charge of the run is Q = 2F·n_H₂, and the same charge
-    passed the anodes. One design: each of its units carries Q/units (exact, the units are
-    identical). Several designs: the accumulator does not tell them apart, so each design with
-    an anode mass is charged the whole Q over its own units (an upper bound; the run ends no
-    later than the first anode is spent). Charge passed going astern counts as well (upper
-    bound). The value is the largest (Q/units − Q_spent) over the designs with anode mass [C];
-    −1 when no design has one (never holds).
+    Each design with an anode mass has its own accumulator in the state vector,
+    Q_k = ∫ |I_k| dt of one unit (all its channels' anodes; charge passed going astern counts as
+    well: an upper bound), so the condition is exact with several designs. The value is the
+    largest (Q_k − Q_spent,k) over those designs [C]; −1 when no design has one (never holds).
 
     References
     ----------
@@ -294,12 +289,8 @@ class AnodeSpent(Condition):
     key, direction, unit = "anode_spent", 1, "C"
 
     def __call__(self, t, y, model, leg_x0_m, leg_t0_s=0.0):
-        q = 2.0 * FARADAY_C_MOL * float(y[model.lay.acc["h2_mol"]])
-        left = [
-            q / u.units - q_spent
-            for u in model.plant.thrusters
-            if math.isfinite(q_spent := anode_spent_charge_c(u))
-        ]
+        units = model.plant.thrusters
+        left = [float(y[i]) - anode_spent_charge_c(units[k]) for k, i in model.lay.i_anode.items()]
         return (max(left) if left else -1.0) - self.threshold
 
     def describe(self) -> str:

@@ -21,6 +21,7 @@ import numpy as np
 import simpy
 
 from sim.engine.conditions import (
+    AnodeSpent,
     BatteryTemperatureAbove,
     CellVoltageBelow,
     Condition,
@@ -46,7 +47,7 @@ from sim.engine.model import (
     VesselModel,
     initial_state,
 )
-from sim.engine.plant import Plant
+from sim.engine.plant import Plant, anode_spent_charge_c
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
@@ -194,7 +195,64 @@ def channel_specs(plant: Plant) -> dict[str, tuple[str, str, int | None, str]]:
             None,
             f,
         ),
+        **_anode_channel(plant),
+        **_water_channels(plant),
     }
+
+
+def _water_channels(plant: Plant) -> dict:
+    """The water channels, only when the water or its current changes along the route or with
+    time (a run in one body of water keeps its channels)."""
+    if not plant.water_varies:
+        return {}
+    f = "float64"
+    return {
+        "salinity": ("1", "practical salinity SP (PSS-78) at the vessel", None, f),
+        "water_temperature_c": ("degC", "in-situ water temperature at the vessel", None, f),
+        "conductivity_s_m": ("S/m", "electrical conductivity of the water at the vessel", None, f),
+        "water_current_m_s": (
+            "m/s",
+            "water current along the track at the vessel (+ with the vessel): steady, route and "
+            "tide",
+            None,
+            f,
+        ),
+    }
+
+
+def _anode_channel(plant: Plant) -> dict:
+    """The anode channel, only when a design tracks its sacrificial anode mass (so the logs of
+    other vessels keep their channels)."""
+    if not any(u.anode_mass_kg is not None for u in plant.thrusters):
+        return {}
+    return {
+        "anode_mass_left_kg": (
+            "kg",
+            "sacrificial anode metal left on one unit of each design, m0 − Q/capacity with Q the "
+            "charge through that unit's anodes (design capacity; NaN for a design without a "
+            "tracked sacrificial anode)",
+            len(plant.thrusters),
+            "float64",
+        )
+    }
+
+
+MAY_BE_NAN = ("anode_mass_left_kg",)
+"""Channels whose NaN is a value (not tracked), not a model failure."""
+
+
+def anode_mass_left(plant: Plant, lay, ys: np.ndarray) -> np.ndarray:
+    """Anode metal left on one unit of each design [kg] at the states ``ys`` (shape (state
+    size, n)): m0 − m_per_C·Q, never below 0, with the design's own charge accumulator
+    (:func:`sim.physics.electrodes.consumed_mass_kg` is linear in the charge); NaN for a design
+    without a tracked anode. Shape (n, designs)."""
+    out = np.full((ys.shape[1], len(plant.thrusters)), np.nan)
+    for k, i in lay.i_anode.items():
+        u = plant.thrusters[k]
+        usable = u.anode_utilisation * u.anode_mass_kg
+        per_c = usable / anode_spent_charge_c(u)
+        out[:, k] = np.maximum(u.anode_mass_kg - per_c * ys[i], 0.0)
+    return out
 
 
 def _ratio(a: float, b: float) -> float:
@@ -239,6 +297,7 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     sc = np.empty((n, len(_SCALAR_FIELDS)))
     li = np.empty((len(_LIST_FIELDS) + 4, n, nthr))
     flags = np.empty((n, 3), dtype=np.int64)
+    wat = np.empty((n, 4))
     chg = np.empty(n)
     short = np.empty(n)
     c = model.control
@@ -257,6 +316,8 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
         flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
         short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
+        w = s.water
+        wat[j] = (w.sp, w.t_c, w.sigma_s_m, s.current_m_s)
     col = dict(zip(_SCALAR_FIELDS, sc.T, strict=True))
     per = dict(zip(_LIST_FIELDS, li, strict=False))
     speed = ys[I_V].copy()
@@ -265,7 +326,9 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         "time_s": np.array(ts, dtype=float),
         "leg_index": np.full(n, leg_index, dtype=np.int64),
         "speed_through_water_m_s": speed,
-        "speed_over_ground_m_s": speed + p.water_current_m_s,
+        "speed_over_ground_m_s": speed + wat[:, 3]
+        if p.water_varies
+        else speed + p.water_current_m_s,
         "distance_m": ys[I_XG].copy(),
         "distance_through_water_m": ys[I_XW].copy(),
         "thrust_n": per["thrust_n"],
@@ -311,6 +374,21 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         "drive_saturated": flags[:, 1],
         "power_folded": flags[:, 2],
         "speed_short_m_s": short,
+        **(
+            {"anode_mass_left_kg": anode_mass_left(p, lay, ys)}
+            if any(u.anode_mass_kg is not None for u in p.thrusters)
+            else {}
+        ),
+        **(
+            {
+                "salinity": wat[:, 0].copy(),
+                "water_temperature_c": wat[:, 1].copy(),
+                "conductivity_s_m": wat[:, 2].copy(),
+                "water_current_m_s": wat[:, 3].copy(),
+            }
+            if p.water_varies
+            else {}
+        ),
     }
 
 
@@ -571,6 +649,8 @@ class MissionRunner:
         self.atol[lay.acc["h2_mol"]] = self.atol[lay.acc["cl2_mol"]] = 1e-9
         self.atol[lay.acc["o2_mol"]] = 1e-9
         self.atol[lay.acc["charge_c"]] = 1e-4
+        for i in lay.i_anode.values():
+            self.atol[i] = 1e-4
 
     # ------------------------------------------------------------------ conditions
     def _value(self, c: _Armed, t: float, y: np.ndarray) -> float:
@@ -614,6 +694,8 @@ class MissionRunner:
             out.append(
                 _Armed("stop", MagnetGradeLimit(), -1, "magnet temperature limit (grade maximum)")
             )
+        if self.model.lay.i_anode:
+            out.append(_Armed("stop", AnodeSpent(), -1, "sacrificial anode spent"))
         if lim.duct_temperature_rise_max_k is not None:
             out.append(
                 _Armed(
@@ -663,17 +745,19 @@ class MissionRunner:
             c = Control(mode="current", setpoint=0.0, derate=m.derate, hotel_w=c.hotel_w)
             note = " (thrust off: coasting to rest)"
         elif c.mode == "speed":
-            self._tune_speed_hold(c, leg, y)
+            self._tune_speed_hold(c, leg, y, t)
             y[self.model.lay.i_pi] = 0.0
         self.model.control = c
         self.model.invalidate()
         self._emit(t, "leg start", index, f"leg {leg.name!r}: {_describe(leg, m.derate)}{note}")
         return y
 
-    def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray) -> None:
+    def _tune_speed_hold(self, c: Control, leg: LegSpec, y: np.ndarray, t: float = 0.0) -> None:
         """Feed-forward from the steady solution at the target speed; PI gains by pole placement
         on the linearised surge equation (critically damped, closed-loop time constant half the
-        open-loop one, at least 2 s), unless the leg gives them."""
+        open-loop one, at least 2 s), unless the leg gives them. The gains are taken in the
+        water at the leg's start (time ``t``, the state's distance); the feed-forward in the
+        plant's reference water (with a route: its start), which the integral term corrects."""
         p = self.plant
         target = c.target
         soc = float(y[I_SOC])
@@ -687,17 +771,17 @@ class MissionRunner:
         yy = y.copy()
         dv = max(1e-3, 1e-3 * target)
         yy[I_V] = target + dv
-        hi = probe.evaluate(0.0, yy)
+        hi = probe.evaluate(t, yy)
         yy[I_V] = max(target - dv, 0.0)
-        lo = probe.evaluate(0.0, yy)
+        lo = probe.evaluate(t, yy)
         damping = (
             (hi.resistance_n - hi.total_thrust_n) - (lo.resistance_n - lo.total_thrust_n)
         ) / (target + dv - max(target - dv, 0.0))
         yy[I_V] = target
         probe.control = Control(mode="voltage", setpoint=ff * 1.01 + 1e-3, hotel_w=c.hotel_w)
-        up = probe.evaluate(0.0, yy)
+        up = probe.evaluate(t, yy)
         probe.control = Control(mode="voltage", setpoint=ff, hotel_w=c.hotel_w)
-        mid = probe.evaluate(0.0, yy)
+        mid = probe.evaluate(t, yy)
         gain = (up.total_thrust_n - mid.total_thrust_n) / (ff * 0.01 + 1e-3)
         if gain <= 1e-9 and ff > 0.0:
             # The thrust does not respond to the command at the feed-forward point: the drive is
@@ -706,7 +790,7 @@ class MissionRunner:
             # loop that chatters once the target becomes reachable (e.g. after a derate); use
             # the mean slope of thrust against command from zero to the feed-forward instead.
             probe.control = Control(mode="voltage", setpoint=0.0, hotel_w=c.hotel_w)
-            zero = probe.evaluate(0.0, yy)
+            zero = probe.evaluate(t, yy)
             gain = (mid.total_thrust_n - zero.total_thrust_n) / ff
         mass = p.total_mass_kg
         damping = max(damping, 1e-6)
@@ -762,7 +846,7 @@ class MissionRunner:
         self._last_ty = (float(ts[0]), ys[:, 0])
         block = sample_block(self.model, ts, ys, self.m.leg_index)
         for k, v in block.items():
-            if v.dtype.kind == "f" and not np.isfinite(v).all():
+            if v.dtype.kind == "f" and k not in MAY_BE_NAN and not np.isfinite(v).all():
                 bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
                 raise SolverFailure(
                     f"non-finite value of {k} ({v[bad].tolist()})",
@@ -845,6 +929,7 @@ class MissionRunner:
         names += ["RC voltage 1", "RC voltage 2", "battery temperature"]
         names += [f"magnet temperature of {u.name!r}" for u in self.plant.thrusters]
         names += ["speed-hold integral", *ACC_NAMES]
+        names += [f"anode charge of {self.plant.thrusters[k].name!r}" for k in lay.i_anode]
         return names[: lay.size]
 
     def _checked_rhs(self, t, y):
@@ -871,6 +956,8 @@ class MissionRunner:
         if p.pack.n_rc > 1:
             idx.append(I_RC2)
         idx.append(I_TB)
+        if p.route is not None and p.route.axis == "distance":
+            idx.append(I_XG)  # the water, and so the thrust, depends on the distance run
         idx += [lay.i_mag + k for k, u in enumerate(p.thrusters) if u.alpha_br_per_k != 0.0]
         if self.model.control.mode == "speed":
             idx.append(lay.i_pi)

@@ -8,11 +8,20 @@ State vector (all SI, temperatures in °C)::
     2  distance through water [m]          then, in order:
     3  state of charge [-]                   speed-hold integral term [V]
     4  RC voltage 1 [V]                      accumulated quantities (ACC_NAMES)
+                                             charge through one unit's sacrificial
+                                             anodes, per design that tracks one [C]
     5  RC voltage 2 [V]
     6  battery temperature [°C]
 
-Dynamics (1-DOF surge): (m + m_a)·dV/dt = ΣT(V, command) − R(V). A steady water current changes
-speed over ground, not speed through water.
+Dynamics (1-DOF surge): (m + m_a)·dV/dt = ΣT(V, command) − R(V). A water current (steady, from
+the route table, tidal) changes speed over ground, not speed through water.
+
+Water along the route: with a route table the water (σ, ρ, ν, c_p, temperature) is a function of
+the distance over ground (state 1) or of time, interpolated linearly between stations; the model
+recomputes it at every evaluation (so the right-hand side is continuous in the state and time)
+and re-prepares the thrusters' constants for it, keeping the last few water states in a small
+cache keyed on the exact interpolated salinity and temperature. Thrust, current, duct heat, hull
+resistance and the heat exchange of battery and magnets all use the local water.
 
 The algebraic part is solved in closed form where the physics allows (per-unit current control,
 pack current for a power demand); the fixed-power mode and the speed hold's saturation use a
@@ -30,8 +39,11 @@ from sim.engine.plant import Plant
 from sim.physics import battery as bat
 from sim.physics.duct_heat import duct_heat
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
+from sim.physics.open_field import hull_friction_change_n, open_field_point, prepare_open_field
 from sim.physics.roots import brent_root as brentq
-from sim.physics.thruster import U_FLOOR_M_S, prepare_scalar, scalar_point
+from sim.physics.route import route_values, tidal_current_m_s
+from sim.physics.seawater import water_state
+from sim.physics.thruster import U_FLOOR_M_S, ScalarPoint, prepare_scalar, scalar_point
 
 I_V, I_XG, I_XW, I_SOC, I_RC1, I_RC2, I_TB = range(7)
 N_FIXED = 7
@@ -84,6 +96,13 @@ class Layout:
         self.i_acc = self.i_pi + 1
         self.acc = {name: self.i_acc + k for k, name in enumerate(ACC_NAMES)}
         self.size = self.i_acc + len(ACC_NAMES)
+        # per design with a tracked sacrificial anode: ∫|I_anodes| dt of one unit [C]
+        # (only then: a plant without one keeps its state vector, and its logs, unchanged)
+        self.i_anode: dict[int, int] = {}
+        for k, u in enumerate(plant.thrusters):
+            if u.sacrificial_anode is not None and u.anode_mass_kg is not None:
+                self.i_anode[k] = self.size
+                self.size += 1
 
 
 def initial_state(
@@ -108,6 +127,7 @@ class Snapshot:
         "cl2",
         "command_v",
         "current_a",
+        "current_m_s",
         "drc1",
         "drc2",
         "drive_loss_w",
@@ -139,6 +159,7 @@ class Snapshot:
         "total_thrust_n",
         "voltage_v",
         "wake_w",
+        "water",
     )
 
 
@@ -154,9 +175,52 @@ class VesselModel:
         self._cache_key: tuple | None = None
         self._cache: Snapshot | None = None
         self._control = Control(mode="voltage", setpoint=0.0, hotel_w=plant.hotel_w)
-        self._consts = [prepare_scalar(u.duct, plant.water) for u in plant.thrusters]
+        self._consts = self._prepare(plant.water)
         self._key_zero = bytes(8 * (I_SOC - I_XG))
         self.n_rhs = 0
+        self._water_cache: dict[tuple[float, float], tuple] = {}
+        self._water_key: tuple[float, float] | None = None
+        self._t_eval = 0.0  # time of the evaluation under way (the water may depend on it)
+
+    WATER_CACHE_SIZE = 64
+    """Water states (and thruster constants) kept for a route [-]."""
+
+    def _prepare(self, water) -> list:
+        """The thrusters' constants for one water state (a duct's or an open-field array's)."""
+        return [
+            prepare_scalar(u.duct, water)
+            if u.open_field is None
+            else prepare_open_field(u.open_field, water)
+            for u in self.plant.thrusters
+        ]
+
+    def local_water(self, t: float, y: np.ndarray):
+        """The water at the vessel and the current along the track: (WaterState, current
+        [m/s], practical salinity [-], temperature [°C]); sets the thrusters' constants for that
+        water. Without a route or tide: the plant's water and steady current."""
+        p = self.plant
+        cur = p.water_current_m_s
+        if p.tide is not None:
+            cur += float(tidal_current_m_s(p.tide, t))
+        r = p.route
+        if r is None:
+            return p.water, cur, p.water.sp, p.water.t_c
+        pos = float(y[I_XG]) if r.axis == "distance" else t
+        sp, tc, rc = route_values(r, pos)
+        sp, tc = float(sp), float(tc)
+        cur += float(rc)
+        key = (sp, tc)
+        if key != self._water_key:
+            hit = self._water_cache.get(key)
+            if hit is None:
+                ws = water_state(sp, tc, r.p_dbar)
+                hit = (ws, self._prepare(ws))
+                if len(self._water_cache) >= self.WATER_CACHE_SIZE:
+                    self._water_cache.pop(next(iter(self._water_cache)))
+                self._water_cache[key] = hit
+            self._water, self._consts = hit
+            self._water_key = key
+        return self._water, cur, sp, tc
 
     @property
     def control(self) -> Control:
@@ -187,11 +251,61 @@ class VesselModel:
         physics solves the parallel equivalent, which has the same power, thrust, losses and
         gas)."""
         kc = self._consts[k]
-        kc.b = b
         u = self.plant.thrusters[k]
         if u.wake_fraction != 0.0:
             speed = speed * (1.0 - u.wake_fraction)
+        if u.open_field is not None:
+            return self._open_field_point(kc, u, speed, b, volts, amps)
+        kc.b = b
         n = u.series_factor
+        if u.sacrificial_anode is not None:
+            op = self._point_n(kc, u, speed, volts, amps, n)
+            # the anode metal dissolves instead of evolving gas: no O2 (nor Cl2) at the anode;
+            # the cathode's hydrogen stays
+            return op._replace(o2_mol_s=0.0, cl2_mol_s=0.0)
+        return self._point_n(kc, u, speed, volts, amps, n)
+
+    @staticmethod
+    def _open_field_point(kc, u, speed, b, volts, amps):
+        """One open-field array as a :class:`~sim.physics.thruster.ScalarPoint`.
+
+        Ductless, so: thrust = the Lorentz force F on the water (the hull feels F − ΔD: the
+        friction increase ΔD of the accelerated boundary layer is counted like a thrust
+        deduction, see :meth:`_evaluate`); duct velocity = the ship speed (the water passes the
+        array at V0: induced velocity neglected); flow work = F·V0, the Lorentz work on the
+        passing water; no duct friction, no jet (wake) loss within the model; no duct heating
+        (the Joule heat goes into the open sea)."""
+        d = u.duct
+        op = open_field_point(
+            kc,
+            speed,
+            voltage_v=volts,
+            current_a=amps,
+            field_scale=b / u.b_ref_tesla if u.b_ref_tesla != 0.0 else 0.0,
+            electrode_drop_v=d.electrode_drop_v,
+            galvanic_offset_v=d.galvanic_offset_v,
+            chlorine_fraction=d.chlorine_fraction,
+            anodic_gas=u.sacrificial_anode is None,
+        )
+        return ScalarPoint(
+            op.lorentz_force_n,
+            op.current_a,
+            op.voltage_v,
+            speed,
+            op.electrical_power_w,
+            op.joule_loss_w,
+            op.electrode_loss_w,
+            0.0,
+            0.0,
+            op.flow_work_w,
+            0.0,
+            op.h2_mol_s,
+            op.cl2_mol_s,
+            op.o2_mol_s,
+        )
+
+    @staticmethod
+    def _point_n(kc, u, speed, volts, amps, n):
         if n == 1:
             return scalar_point(
                 kc,
@@ -247,12 +361,16 @@ class VesselModel:
 
     # ------------------------------------------------------------------ algebra
     def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
-        # the algebra reads only the dynamic states (not t, the distances or the accumulators)
+        # the algebra reads only the dynamic states (not t, the distances or the accumulators),
+        # unless the water changes along the route or with time
         key = y[: self.lay.i_acc].tobytes()
-        if key[8 * I_XG : 8 * I_SOC] != self._key_zero:
+        if self.plant.water_varies:
+            key += np.float64(t).tobytes()
+        elif key[8 * I_XG : 8 * I_SOC] != self._key_zero:
             key = key[: 8 * I_XG] + self._key_zero + key[8 * I_SOC :]
         if key == self._cache_key:
             return self._cache
+        self._t_eval = t
         s = self._evaluate(y)
         self._cache_key, self._cache = key, s
         return s
@@ -347,6 +465,11 @@ class VesselModel:
         """
         end, vmean, vout = [], [], []
         for k, (op, u) in enumerate(zip(s.ops, self.plant.thrusters, strict=True)):
+            if u.open_field is not None:  # no channel ends, no duct for gas to fill
+                end.append(0.0)
+                vmean.append(0.0)
+                vout.append(0.0)
+                continue
             kc = self._consts[k]
             n = u.series_factor
             i_par = float(op.current_a) * n
@@ -366,6 +489,7 @@ class VesselModel:
 
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
+        w, current_m_s, _, _ = self.local_water(self._t_eval, y)
         speed = float(y[I_V])
         fields = [self.field_t(k, float(y[lay.i_mag + k])) for k in range(lay.n_thr)]
         vmax = p.drive_max_voltage_v
@@ -415,12 +539,27 @@ class VesselModel:
         thrust, current, volts, rise, jrise = [], [], [], [], []
         joule = electrode = friction = wake = flow = h2 = cl2 = o2 = thr = 0.0
         eff = gross_power = el_heat = 0.0
-        w = p.water
-        for op, u in zip(ops, p.thrusters, strict=True):
+        for k, (op, u) in enumerate(zip(ops, p.thrusters, strict=True)):
             m = u.units
             thrust.append(op.thrust_n * m)
             current.append(op.current_a * m)
             volts.append(op.voltage_v)
+            if u.open_field is not None:
+                # the hull feels F − ΔD (the boundary-layer friction increase, a deduction)
+                d_drag = hull_friction_change_n(self._consts[k], op.thrust_n, speed)
+                rise.append(0.0)
+                jrise.append(0.0)
+                el_heat += u.overpotential_v * abs(op.current_a) * m
+                joule += op.joule_loss_w * m
+                electrode += op.electrode_loss_w * m
+                flow += op.flow_work_w * m
+                h2 += op.h2_mol_s * m
+                cl2 += op.cl2_mol_s * m
+                o2 += op.o2_mol_s * m
+                thr += op.electrical_power_w * m
+                eff += (op.thrust_n - math.copysign(d_drag, op.thrust_n)) * m
+                gross_power += op.thrust_n * m * speed
+                continue
             heat = duct_heat(
                 max(op.joule_loss_w, 0.0),
                 max(op.friction_loss_w, 0.0),
@@ -477,7 +616,7 @@ class VesselModel:
         d = bat.drc_dt(pk, soc, temp, s.pack_current_a, rc)
         s.drc1 = float(d[0])
         s.drc2 = float(d[1]) if pk.n_rc > 1 else 0.0
-        w = p.water
+        s.water, s.current_m_s = w, current_m_s
         s.resistance_n = float(p.resistance.resistance_n(speed, w.rho_kg_m3, w.nu_m2_s))
         return s
 
@@ -489,16 +628,16 @@ class VesselModel:
         dy = np.zeros_like(y)
         speed = float(y[I_V])
         dy[I_V] = (s.total_thrust_n - s.resistance_n) / p.total_mass_kg
-        dy[I_XG] = speed + p.water_current_m_s
+        dy[I_XG] = speed + s.current_m_s
         dy[I_XW] = speed
         dy[I_SOC] = bat.dsoc_dt(p.pack, s.pack_current_a)
         dy[I_RC1] = s.drc1
         dy[I_RC2] = s.drc2
         dy[I_TB] = bat.battery_temperature_rate_k_s(
-            p.pack, s.pack_heat_w, float(y[I_TB]), p.water.t_c, p.battery_ua_w_k
+            p.pack, s.pack_heat_w, float(y[I_TB]), s.water.t_c, p.battery_ua_w_k
         )
         for k, u in enumerate(p.thrusters):
-            duct_mean_c = p.water.t_c + 0.5 * s.duct_rise_k[k]
+            duct_mean_c = s.water.t_c + 0.5 * s.duct_rise_k[k]
             dy[lay.i_mag + k] = (
                 u.magnet_conductance_w_k
                 * (duct_mean_c - float(y[lay.i_mag + k]))
@@ -529,4 +668,8 @@ class VesselModel:
         dy[a["o2_mol"]] = s.o2
         dy[a["energy_busbar_j"]] = s.busbar_w
         dy[a["energy_hull_interaction_j"]] = s.interaction_w
+        for k, i in lay.i_anode.items():
+            # every channel's anode of a unit passes the parallel-equivalent current
+            u = p.thrusters[k]
+            dy[i] = abs(float(s.ops[k].current_a)) * u.series_factor
         return dy

@@ -24,6 +24,8 @@ from sim.engine.spec import (
 from sim.physics import battery as bat
 from sim.physics import electrochem, electrodes, fields, hull, layouts, magnet_gap, magnets
 from sim.physics.errors import ModelRangeError
+from sim.physics.open_field import OpenFieldArray, surface_field_t
+from sim.physics.route import RouteWater, TidalCurrent
 from sim.physics.seawater import WaterState, water_state
 from sim.physics.thruster import DuctThruster
 
@@ -71,6 +73,11 @@ class ThrusterUnit:
     """Sacrificial anode metal of one unit when new [kg]; None: not tracked."""
     anode_utilisation: float = 0.85
     """Usable share of anode_mass_kg before the anode counts as spent [-]."""
+    open_field: OpenFieldArray | None = None
+    """Layout 'open-field': the electrode and magnet arrays on the hull (the model solves them
+    with :mod:`sim.physics.open_field`); :attr:`duct` then only carries the electrode terms
+    (drop, galvanic offset, chlorine fraction), and :attr:`b_ref_tesla` is the fundamental of
+    the field at the wetted surface (:func:`sim.physics.open_field.surface_field_t`)."""
 
     @property
     def series_factor(self) -> int:
@@ -115,6 +122,16 @@ class Plant:
     coil_power_w: float = 0.0
     """Part of :attr:`cryocooler_w` drawn by thruster coils [W]: Σ units × (resistive I²R or
     superconducting cryocooler input) of every design."""
+    route: RouteWater | None = None
+    """Water along the route (None: :attr:`water` everywhere); :attr:`water` is then the water
+    at the route's start."""
+    tide: TidalCurrent | None = None
+    """Tidal current along the track (None: none)."""
+
+    @property
+    def water_varies(self) -> bool:
+        """True when the water or its current changes along the route or with time."""
+        return self.route is not None or self.tide is not None
 
     @property
     def total_mass_kg(self) -> float:
@@ -127,8 +144,42 @@ class Plant:
 
 
 def water_properties(water: Water) -> WaterState:
-    """Water properties at the vessel's depth (TEOS-10 via :mod:`sim.physics.seawater`)."""
+    """Water properties at the vessel's depth (TEOS-10 via :mod:`sim.physics.seawater`); with a
+    route, those at its start."""
+    if water.route is not None:
+        r = water.route
+        return water_state(r.salinity[0], r.temperature_c[0], water.depth_m * DBAR_PER_M)
     return water_state(water.salinity, water.temperature_c, water.depth_m * DBAR_PER_M)
+
+
+def route_water(water: Water) -> RouteWater | None:
+    """The route table of a body of water as :class:`sim.physics.route.RouteWater` (None
+    without one)."""
+    r = water.route
+    if r is None:
+        return None
+    return RouteWater(
+        axis=r.axis,
+        stations=tuple(r.stations),
+        sp=tuple(r.salinity),
+        t_c=tuple(r.temperature_c),
+        current_m_s=tuple(r.current_m_s),
+        p_dbar=water.depth_m * DBAR_PER_M,
+    )
+
+
+def tidal_current(water: Water) -> TidalCurrent | None:
+    """The tide of a body of water as :class:`sim.physics.route.TidalCurrent` (None without
+    one): the peak with the vessel at t_peak is the phase φ = 2π·t_peak/T."""
+    td = water.tide
+    if td is None:
+        return None
+    return TidalCurrent(
+        amplitude_m_s=td.amplitude_m_s,
+        phase_rad=2.0 * math.pi * td.peak_time_s / td.period_s,
+        mean_m_s=td.mean_m_s,
+        period_s=td.period_s,
+    )
 
 
 def hull_model(spec: HullSpec):
@@ -208,7 +259,8 @@ def thruster_unit(spec: ThrusterSpec, design_current_a: float | None = None) -> 
     Raises :class:`~sim.physics.errors.ModelRangeError` when the duct or layout model rejects
     it."""
     drop, offset, f_cl, eta = _electrode_terms(spec, design_current_a)
-    b_hw = hardware_field_t(spec)
+    arr = open_field_array(spec) if spec.layout == "open-field" else None
+    b_hw = surface_field_t(arr) if arr is not None else hardware_field_t(spec)
     opts = dict(
         roughness_m=spec.wall_roughness_m,
         k_inlet=spec.inlet_loss,
@@ -222,7 +274,17 @@ def thruster_unit(spec: ThrusterSpec, design_current_a: float | None = None) -> 
         gas_slip_ratio=spec.gas_slip_ratio,
         end_effects=spec.end_effects,
     )
-    duct = layout_duct(spec, b_hw, opts)
+    if arr is not None:  # a stand-in that carries the electrode terms (not used for the flow)
+        duct = DuctThruster(
+            gap_m=arr.pitch_m,
+            height_m=arr.electrode_width_m,
+            length_m=arr.array_length_m,
+            n_channels=1,
+            b_tesla=b_hw,
+            **opts,
+        )
+    else:
+        duct = layout_duct(spec, b_hw, opts)
     alpha, tmax = 0.0, math.inf
     if spec.magnet == "permanent":
         alpha = magnets.ALPHA_BR_NDFEB_PER_K
@@ -254,6 +316,34 @@ def thruster_unit(spec: ThrusterSpec, design_current_a: float | None = None) -> 
         sacrificial_anode=sacrificial,
         anode_mass_kg=spec.anode_mass_kg if sacrificial else None,
         anode_utilisation=spec.anode_utilisation,
+        open_field=arr,
+    )
+
+
+def open_field_array(spec: ThrusterSpec) -> OpenFieldArray:
+    """The arrays of an open-field thruster design (:class:`sim.physics.open_field.
+    OpenFieldArray`): strips of active_length along the flow; the magnets' remanence is the
+    given field (at its reference temperature) or the NdFeB grade's nominal remanence at 20 °C.
+
+    Raises :class:`~sim.physics.errors.ModelRangeError` when the arrays are not valid."""
+    if spec.field_t is not None:
+        br = spec.field_t
+    elif spec.magnet_grade:
+        br = magnets.NDFEB_GRADES[spec.magnet_grade.upper()].br_tesla
+    else:
+        raise ModelRangeError("field", None, "a remanence or a magnet_grade", "open-field")
+    return OpenFieldArray(
+        pitch_m=spec.strip_pitch_m,
+        electrode_width_m=spec.electrode_width_m,
+        n_electrodes=int(spec.strips),
+        array_length_m=spec.active_length_m,
+        br_t=br,
+        magnet_width_m=spec.magnet_width_m,
+        magnet_thickness_m=spec.magnet_thickness_m,
+        magnet_depth_m=spec.magnet_depth_m,
+        magnet_offset_m=spec.magnet_offset_m,
+        position_from_bow_m=spec.array_position_m,
+        bl_friction_share=spec.friction_share,
     )
 
 
@@ -305,6 +395,8 @@ def cathode_area_per_channel_m2(spec: ThrusterSpec) -> float:
     so its current density is the higher)."""
     if spec.layout in ("annular", "helical"):
         return 2.0 * math.pi * spec.inner_radius_m * spec.active_length_m
+    if spec.layout == "open-field":  # all cathode strips of the array
+        return 0.5 * spec.strips * spec.electrode_width_m * spec.active_length_m
     return spec.pole_height_m * spec.active_length_m
 
 
@@ -624,4 +716,6 @@ def build_plant(vessel: VesselSpec, water: Water) -> Plant:
         hull_max_speed_m_s=vmax_hull,
         hull_max_froude=fn_max,
         coil_power_w=coil_w,
+        route=route_water(water),
+        tide=tidal_current(water),
     )

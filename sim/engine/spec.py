@@ -29,12 +29,14 @@ __all__ = [
     "LimitsSpec",
     "MagnetBlocksSpec",
     "MissionSpec",
+    "RouteSpec",
     "ScheduleSpec",
     "SolverSpec",
     "StartSpec",
     "SubmergedHullSpec",
     "TableHullSpec",
     "ThrusterSpec",
+    "TideSpec",
     "TriggerSpec",
     "VesselSpec",
     "Water",
@@ -42,6 +44,38 @@ __all__ = [
 ]
 
 # --------------------------------------------------------------------------- water
+
+
+@dataclass(frozen=True)
+class RouteSpec:
+    """Salinity, temperature and (optionally) a current at stations along the route; linear in
+    between, held at the end values beyond (:mod:`sim.physics.route`)."""
+
+    axis: str
+    """'distance' (stations in metres over ground from the start) or 'time' (seconds)."""
+    stations: tuple[float, ...]
+    """Station positions, strictly increasing [m or s]."""
+    salinity: tuple[float, ...]
+    """Practical salinity SP at the stations [-]."""
+    temperature_c: tuple[float, ...]
+    """In-situ temperature at the stations [°C]."""
+    current_m_s: tuple[float, ...] = ()
+    """Current along the track at the stations [m/s] (+ with the vessel); () for none."""
+
+
+@dataclass(frozen=True)
+class TideSpec:
+    """A tidal current along the track that turns with time: u = mean + A·cos(2π(t − t_peak)/T)."""
+
+    amplitude_m_s: float
+    """Amplitude A [m/s] (≥ 0)."""
+    period_s: float = 44714.16439359889
+    """Period T [s]; default the M2 tide, 12.4206 h (Doodson 1921;
+    :data:`sim.physics.route.M2_PERIOD_S`)."""
+    peak_time_s: float = 0.0
+    """Mission time at which the current runs at +A (with the vessel) [s]."""
+    mean_m_s: float = 0.0
+    """Residual current [m/s]."""
 
 
 @dataclass(frozen=True)
@@ -56,6 +90,12 @@ class Water:
     """Depth of the vessel below the surface [m] (sets the sea pressure)."""
     current_m_s: float = 0.0
     """Steady water current along the track [m/s], positive when it flows with the vessel."""
+    route: RouteSpec | None = None
+    """Water along the route: its salinity and temperature replace ``salinity`` and
+    ``temperature_c`` (the values at the route's start are the plant's reference water); its
+    current adds to ``current_m_s``."""
+    tide: TideSpec | None = None
+    """A tidal current (adds to the others)."""
 
 
 # --------------------------------------------------------------------------- vessel
@@ -233,7 +273,8 @@ class ThrusterSpec:
     """Electromagnet whose mean field sets the field (field_t None)."""
     layout: str = "duct"
     """'duct' (straight rectangular channels), 'stack' (stack_count short channels sharing one
-    magnet array), 'annular', 'ring-of-tubes' or 'helical' (:mod:`sim.physics.layouts`)."""
+    magnet array), 'annular', 'ring-of-tubes' or 'helical' (:mod:`sim.physics.layouts`), or
+    'open-field' (electrode and magnet strips on the hull, :mod:`sim.physics.open_field`)."""
     stack_count: int = 1
     """Stack: number of channels side by side (the stack's n_channels)."""
     inner_radius_m: float | None = None
@@ -257,6 +298,28 @@ class ThrusterSpec:
     tracked."""
     anode_utilisation: float = 0.85
     """Sacrificial anodes: usable share of anode_mass_kg before the anode counts as spent [-]."""
+    strip_pitch_m: float | None = None
+    """Open field: centre distance of neighbouring electrode strips, = that of the magnet
+    strips [m] (:class:`sim.physics.open_field.OpenFieldArray`). For this layout field_t is the
+    magnets' remanence (None: the magnet grade's)."""
+    electrode_width_m: float | None = None
+    """Open field: width of each electrode strip [m]."""
+    strips: int = 2
+    """Open field: number of electrode strips (half anodes, half cathodes)."""
+    magnet_width_m: float | None = None
+    """Open field: width of each magnet strip [m]."""
+    magnet_thickness_m: float | None = None
+    """Open field: thickness of the magnet strips along their magnetisation [m]."""
+    magnet_depth_m: float = 0.0
+    """Open field: magnets' top faces below the wetted surface (hull plating) [m]."""
+    magnet_offset_m: float | None = None
+    """Open field: magnet strip centres from the electrode centres, across the flow [m]; None:
+    half the pitch."""
+    array_position_m: float | None = None
+    """Open field: bow to the middle of the array, along the hull [m] (boundary layer)."""
+    friction_share: float = 0.5
+    """Open field: share κ of the Lorentz force inside the boundary layer that goes to the hull
+    as extra friction [-] (a model assumption)."""
 
 
 @dataclass(frozen=True)

@@ -19,6 +19,7 @@ __all__ = [
     "NOT_FINISHED",
     "OLD_SERIES_NAMES",
     "OLD_SUMMARY_KEYS",
+    "OPTIONAL_SUMMARY_UNITS",
     "SUMMARY_UNITS",
     "anode_mass_left_kg",
     "summarise",
@@ -57,6 +58,13 @@ SUMMARY_UNITS = {
     "ending_reason": "",
 }
 """Summary key -> unit text ("" for the ending reason), in the summary's key order."""
+
+OPTIONAL_SUMMARY_UNITS = {
+    "anode_mass_left_kg": "kg",
+}
+"""Summary keys present only when the run has what they describe (after the keys of
+:data:`SUMMARY_UNITS`): ``anode_mass_left_kg``, the least sacrificial anode metal left on one
+unit of any design that tracks its anode mass, at the end of the run."""
 
 OLD_SUMMARY_KEYS = {
     "mean_overall_efficiency": "mean_eta_overall",
@@ -203,7 +211,7 @@ def summarise(
         episodes = float(np.count_nonzero(limited[1:] & ~limited[:-1]) + int(limited[0]))
     else:
         episodes = math.nan
-    return {
+    out = {
         "distance_m": dist,
         "duration_s": dur,
         "mean_speed_over_ground_m_s": dist / dur if dur > 0 else 0.0,
@@ -231,6 +239,11 @@ def summarise(
         "drive_limit_episodes": episodes,
         "ending_reason": ending_reason,
     }
+    if "anode_mass_left_kg" in s and n:
+        last = np.asarray(s["anode_mass_left_kg"], dtype=float).reshape(n, -1)[-1]
+        if np.isfinite(last).any():
+            out["anode_mass_left_kg"] = float(np.nanmin(last))
+    return out
 
 
 def anode_mass_left_kg(

@@ -538,7 +538,7 @@ def scenario_warnings(
     """Warnings that need the built plant (e.g. boiling water at bollard)."""
     out = []
     try:
-        plant = plant_of(vessel_spec(vessel), water(spec.water))
+        plant = plant_of(vessel_spec(vessel), water(spec.water, spec.route, spec.tide))
     except (ModelRangeError, ValueError, ArithmeticError):  # reported by the checks above
         return out
     for i, leg in enumerate(spec.leg):
@@ -556,6 +556,8 @@ def scenario_warnings(
             )
     vmax = plant.drive_max_voltage_v
     for u in plant.thrusters:
+        if u.open_field is not None:  # no duct water to boil: the Joule heat goes to the sea
+            continue
         try:
             n = u.series_factor  # the physics solves the parallel equivalent of series wiring
             op = operating_point(u.duct, plant.water, 0.0, voltage_v=vmax / n)

@@ -114,7 +114,7 @@ def feasibility_problems(
         loaders report that).
     """
     try:
-        plant = plant_of(vessel_spec(vessel), water(spec.water))
+        plant = plant_of(vessel_spec(vessel), water(spec.water, spec.route, spec.tide))
     except (ModelRangeError, ValueError, ArithmeticError):
         return []
     soc = spec.start.state_of_charge

@@ -722,7 +722,7 @@ def load_scenario(
         spec=spec,
         vessel=vessel,
         mission_spec=mission_spec(spec),
-        water=water(spec.water),
+        water=water(spec.water, spec.route, spec.tide),
         warnings=problems + scenario_warnings(spec, vessel.spec, str(path), data),
     )
 

@@ -177,7 +177,7 @@ SACRIFICIAL_CATHODES = {
 """Cathode material (file name) -> its kinetics entry, for the cathodes a sacrificial anode may
 work against (their hydrogen-evolution overpotential sets the electrode drop)."""
 
-LAYOUTS = ("duct", "stack", "annular", "ring-of-tubes", "helical")
+LAYOUTS = ("duct", "stack", "annular", "ring-of-tubes", "helical", "open-field")
 """Thruster layouts a vessel file may choose (thruster.layout)."""
 
 COIL_FOR_LAYOUT = {
@@ -196,6 +196,14 @@ _LAYOUT_NEEDS = {
     "annular": ("inner_radius", "outer_radius"),
     "ring-of-tubes": ("gap", "pole_height", "ring_radius", "tube_count"),
     "helical": ("inner_radius", "outer_radius", "pitch_angle"),
+    "open-field": (
+        "strip_pitch",
+        "electrode_width",
+        "strips",
+        "magnet_width",
+        "magnet_thickness",
+        "array_position",
+    ),
 }
 """Keys each thruster layout requires."""
 
@@ -547,7 +555,7 @@ class ThrusterSpec(_Strict):
     """Number of identical units of this design. Each unit has its own converter (drive.max_current
     is per unit) and gets the same electrode voltage; thrust, current, power, losses, gas and
     housing drag are the one-unit values times units."""
-    layout: Literal["duct", "stack", "annular", "ring-of-tubes", "helical"] = "duct"
+    layout: Literal["duct", "stack", "annular", "ring-of-tubes", "helical", "open-field"] = "duct"
     """Thruster layout (:mod:`sim.physics.layouts`); each is built into an equivalent straight
     duct with the same resistance, force per ampere, back EMF, flow area and volume (its own
     hydraulic diameter for friction), so every result and log channel is as for a duct; the
@@ -559,7 +567,13 @@ class ThrusterSpec(_Strict):
     axial flow through the annulus (Way 1968). 'ring-of-tubes': tube_count rectangular tubes
     (gap along the radius, pole_height along the field) on a ring of ring_radius in an
     azimuthal field. 'helical': a solenoid's axial field, radial current, helical passages at
-    pitch_angle and a stator that recovers stator_recovery of the swirl energy.
+    pitch_angle and a stator that recovers stator_recovery of the swirl energy. 'open-field':
+    no duct; strips of electrodes and magnets on the hull (strip_pitch, electrode_width,
+    strips, magnet_width, magnet_thickness, magnet_depth, active_length along the flow) drive
+    current and field into the water outside (Way 1968): force per ampere and resistance from
+    a 2-D periodic model, back EMF by reciprocity, no duct friction, the accelerated boundary
+    layer's extra hull friction counted against the thrust (:mod:`sim.physics.open_field`
+    states the assumptions); `field` is then the magnets' remanence (or give magnet_grade).
 
     Default: a straight duct (as before this key existed)."""
     gap: quantity("length", gt=0, le=1e4, optional=True) = None
@@ -619,6 +633,51 @@ class ThrusterSpec(_Strict):
     quarters is usual for stator vanes (Carlton 2012; from memory).
 
     Default: 0.6."""
+    strip_pitch: quantity("length", gt=0, le=10, optional=True) = None
+    """Layout open-field: centre distance between neighbouring electrode strips, the same as
+    between neighbouring magnet strips (their polarities alternate, so the pattern repeats every
+    two pitches); field and current decay into the water over about pitch/π.
+
+    Default: none (required by layout open-field)."""
+    electrode_width: quantity("length", gt=0, le=10, optional=True) = None
+    """Layout open-field: width of each electrode strip, flush with the hull (≤ strip_pitch).
+
+    Default: none (required by layout open-field)."""
+    strips: number(ge=2, le=10000, integer=True, optional=True) = None
+    """Layout open-field: number of electrode strips of one unit, alternately anode and cathode;
+    the array covers strips × strip_pitch across the flow and active_length along it.
+
+    Default: none (required by layout open-field)."""
+    magnet_width: quantity("length", gt=0, le=10, optional=True) = None
+    """Layout open-field: width of each magnet strip (≤ strip_pitch), magnetised normal to the
+    hull, alternately in and out.
+
+    Default: none (required by layout open-field)."""
+    magnet_thickness: quantity("length", gt=0, le=10, optional=True) = None
+    """Layout open-field: thickness of the magnet strips along their magnetisation.
+
+    Default: none (required by layout open-field)."""
+    magnet_depth: quantity("length", ge=0, le=10) = 0.0
+    """Layout open-field: distance from the magnets' faces to the wetted surface (the hull
+    plating and any coating over them).
+
+    Default: 0 m."""
+    magnet_offset: quantity("length", ge=0, le=10, optional=True) = None
+    """Layout open-field: offset of the magnet strips from the electrode strips across the flow;
+    half the pitch gives the largest force, zero none.
+
+    Default: half the strip_pitch."""
+    array_position: quantity("length", gt=0, le=1e4, optional=True) = None
+    """Layout open-field: distance from the bow to the middle of the array along the hull; sets
+    the boundary-layer thickness there.
+
+    Default: none (required by layout open-field)."""
+    friction_share: number(ge=0, le=1) = 0.5
+    """Layout open-field: share of the Lorentz force acting inside the hull's boundary layer that
+    goes to the hull as extra skin friction (a model assumption, not from a source; 0 switches
+    the effect off).
+
+    Default: 0.5."""
     channels: number(ge=1, le=256, integer=True) = 1
     """Identical channels in one unit, side by side in the flow; electrically as channel_wiring
     says."""
@@ -629,7 +688,8 @@ class ThrusterSpec(_Strict):
     same; the drive's max_voltage and max_current apply to the unit values."""
     field: quantity("field", ge=0, le=30, optional=True) = None
     """Mean magnetic flux density in the gap, at field_reference_temperature (layouts annular and
-    ring-of-tubes: the azimuthal field at the mean or ring radius; helical: the axial field).
+    ring-of-tubes: the azimuthal field at the mean or ring radius; helical: the axial field;
+    open-field: the remanence of the magnet strips, the grade's when left out).
     Zero is legal (a thruster without a magnet only heats the water); it draws a warning. Give
     exactly one of field, magnet_blocks and coil.
 
@@ -800,12 +860,21 @@ class ThrusterSpec(_Strict):
             "ring_radius": ("ring-of-tubes",),
             "tube_count": ("ring-of-tubes",),
             "pitch_angle": ("helical",),
+            "strip_pitch": ("open-field",),
+            "electrode_width": ("open-field",),
+            "strips": ("open-field",),
+            "magnet_width": ("open-field",),
+            "magnet_thickness": ("open-field",),
+            "magnet_offset": ("open-field",),
+            "array_position": ("open-field",),
         }
         given = self.model_fields_set
         extra = {
             "field_profile": ("annular", "ring-of-tubes"),
             "vanes": ("helical",),
             "stator_recovery": ("helical",),
+            "magnet_depth": ("open-field",),
+            "friction_share": ("open-field",),
         }
         for k, lays in {**only, **extra}.items():
             if lay not in lays and (getattr(self, k) is not None if k in only else k in given):
@@ -831,6 +900,25 @@ class ThrusterSpec(_Strict):
                 "outer_radius",
                 r1=self.inner_radius,
             )
+        if lay == "open-field":
+            for k in ("electrode_width", "magnet_width", "magnet_offset"):
+                v = getattr(self, k)
+                if v is not None and v > self.strip_pitch:
+                    raise _bad(
+                        "{k} ({v:g} m) is more than strip_pitch ({p:g} m); allowed: ≤ strip_pitch",
+                        k,
+                        k=k,
+                        v=v,
+                        p=self.strip_pitch,
+                    )
+            for k in ("channel_wiring", "wake_fraction", "thrust_deduction", "nozzle_area_ratio"):
+                if k in given:
+                    raise _bad(
+                        "{k} does not apply to layout open-field (no duct, no channels; the "
+                        "friction_share sets its deduction); allowed: leave {k} out",
+                        k,
+                        k=k,
+                    )
         if lay == "helical" and "nozzle_area_ratio" in given:
             raise _bad(
                 "layout helical sets its own jet from the stator recovery; allowed: leave "
@@ -865,6 +953,27 @@ class ThrusterSpec(_Strict):
 
     @model_validator(mode="after")
     def _field_or_blocks(self):
+        if self.layout == "open-field":
+            if self.magnet_blocks is not None or self.coil is not None:
+                raise _bad(
+                    "layout open-field takes its magnets as strips; allowed: field (the strips' "
+                    "remanence) or magnet_grade, not magnet_blocks or coil",
+                    "magnet_blocks" if self.magnet_blocks is not None else "coil",
+                )
+            if self.field is None and self.magnet_grade is None:
+                raise _bad(
+                    "layout open-field needs the magnet strips' remanence; allowed: field = "
+                    "'1.3 T' (remanence) or magnet_grade = 'N42SH'",
+                    "field",
+                )
+            if self.magnet != "permanent":
+                raise _bad(
+                    "layout open-field models permanent-magnet strips, but magnet = '{m}'; "
+                    "allowed: magnet = 'permanent'",
+                    "magnet",
+                    m=self.magnet,
+                )
+            return self
         n_given = sum(x is not None for x in (self.field, self.magnet_blocks, self.coil))
         if n_given != 1:
             raise PydanticCustomError(
@@ -1039,6 +1148,89 @@ class WaterSpec(_Strict):
     """Steady water current along the track, positive when it flows with the vessel: speed over
     ground = speed through water + current. Distances (leg distance, total_distance_above) are over
     ground; speeds (speed legs, speed conditions) are through the water."""
+
+
+class RouteTable(_Strict):
+    """[route]: the water along the route, as a table of stations (optional). Between stations
+    the values are interpolated linearly; before the first and after the last they are held.
+    The route's salinity and temperature replace those of [water] (which then only give the
+    depth and a steady current); its current adds to [water]'s current and the [tide]."""
+
+    distance: list[quantity("length", ge=0, le=1e7)] | None = None
+    """Stations by distance over ground from the start, strictly increasing, e.g.
+    ["0 km", "2 km", "6 km"].
+
+    Default: none (give distance or time)."""
+    time: list[quantity("time", ge=0, le=1e8)] | None = None
+    """Stations by mission time, strictly increasing, e.g. ["0 h", "3 h"].
+
+    Default: none (give distance or time)."""
+    salinity: list[number(ge=0, le=42)] = Field(min_length=1)
+    """Practical salinity SP (PSS-78) at each station; with the temperature it sets the
+    conductivity, density and viscosity the thrusters and the hull meet there."""
+    temperature: list[quantity("temperature", ge=-2, le=40)] = Field(min_length=1)
+    """In-situ water temperature at each station; also what the battery and the magnets exchange
+    heat with there."""
+    current: list[quantity("speed", ge=-10, le=10)] | None = None
+    """Current along the track at each station, positive with the vessel (speed over ground =
+    speed through water + current).
+
+    Default: no current from the route."""
+
+    @model_validator(mode="after")
+    def _stations(self):
+        if (self.distance is None) == (self.time is None):
+            raise _bad(
+                "give the stations either by distance or by time; allowed: distance = [...] "
+                "or time = [...], not both",
+                "distance",
+            )
+        axis = "distance" if self.distance is not None else "time"
+        at = self.distance if self.distance is not None else self.time
+        if not at:
+            raise _bad("{axis} has no stations; allowed: one or more", axis, axis=axis)
+        bad = [i for i in range(1, len(at)) if not at[i] > at[i - 1]]
+        if bad:
+            raise _bad(
+                "{axis} must increase strictly, but entry {i} is not above the one before it; "
+                "allowed: an ascending list",
+                axis,
+                axis=axis,
+                i=bad[0],
+            )
+        for k in ("salinity", "temperature", "current"):
+            v = getattr(self, k)
+            if v is not None and len(v) != len(at):
+                raise _bad(
+                    "{k} has {a} entries but {axis} has {b}; allowed: one entry per station",
+                    k,
+                    k=k,
+                    a=len(v),
+                    axis=axis,
+                    b=len(at),
+                )
+        return self
+
+
+class TideTable(_Strict):
+    """[tide]: a tidal current along the track that turns with time (optional):
+    u = mean + amplitude·cos(2π(t − peak_time)/period), positive with the vessel."""
+
+    amplitude: quantity("speed", ge=0, le=10)
+    """Amplitude of the tidal current."""
+    period: quantity("time", gt=0, le=1e7) = 44714.16439359889
+    """Period of the tide.
+
+    Default: 12.42 h, the principal lunar semidiurnal tide M2 (Doodson 1921)."""
+    peak_time: quantity("time", ge=-1e7, le=1e7) = 0.0
+    """Mission time at which the tidal current runs strongest with the vessel (+amplitude); it
+    turns against the vessel a quarter period later. Negative: before the start.
+
+    Default: 0 s (the run starts at that peak)."""
+    mean: quantity("speed", ge=-10, le=10) = 0.0
+    """Residual (mean) current added to the tide.
+
+    Default: 0 m/s."""
 
 
 class StartSpec(_Strict):
@@ -1367,6 +1559,14 @@ class ScenarioFile(_Strict):
     """Name of the scenario and the vessel that flies it."""
     water: WaterSpec
     """The body of water."""
+    route: RouteTable | None = None
+    """Salinity, temperature and current along the route.
+
+    Default: none ([water] everywhere)."""
+    tide: TideTable | None = None
+    """A tidal current that turns with time.
+
+    Default: none (no tide)."""
     start: StartSpec = StartSpec()
     """The state at time zero (optional: all defaults)."""
     output: OutputSpec = OutputSpec()

@@ -23,19 +23,46 @@ __all__ = [
     "limits_spec",
     "mission_spec",
     "plant_of",
+    "route_spec",
     "thruster_spec",
     "vessel_spec",
     "water",
 ]
 
 
-def water(ws: schema.WaterSpec) -> spec.Water:
-    """A scenario's ``[water]`` table as the engine's :class:`~sim.engine.spec.Water`."""
+def water(
+    ws: schema.WaterSpec,
+    route: schema.RouteTable | None = None,
+    tide: schema.TideTable | None = None,
+) -> spec.Water:
+    """A scenario's ``[water]`` table (with its ``[route]`` and ``[tide]``) as the engine's
+    :class:`~sim.engine.spec.Water`."""
     return spec.Water(
         salinity=ws.salinity,
         temperature_c=ws.temperature,
         depth_m=ws.depth,
         current_m_s=ws.current,
+        route=None if route is None else route_spec(route),
+        tide=None
+        if tide is None
+        else spec.TideSpec(
+            amplitude_m_s=tide.amplitude,
+            period_s=tide.period,
+            peak_time_s=tide.peak_time,
+            mean_m_s=tide.mean,
+        ),
+    )
+
+
+def route_spec(r: schema.RouteTable) -> spec.RouteSpec:
+    """A scenario's ``[route]`` table as the engine's :class:`~sim.engine.spec.RouteSpec`."""
+    axis = "distance" if r.distance is not None else "time"
+    return spec.RouteSpec(
+        axis=axis,
+        stations=tuple(r.distance if r.distance is not None else r.time),
+        salinity=tuple(r.salinity),
+        temperature_c=tuple(r.temperature),
+        current_m_s=tuple(r.current) if r.current is not None else (),
     )
 
 
@@ -132,6 +159,15 @@ def thruster_spec(t: schema.ThrusterSpec) -> spec.ThrusterSpec:
         stator_recovery=t.stator_recovery,
         anode_mass_kg=t.anode_mass,
         anode_utilisation=t.anode_utilisation,
+        strip_pitch_m=t.strip_pitch,
+        electrode_width_m=t.electrode_width,
+        strips=t.strips or 2,
+        magnet_width_m=t.magnet_width,
+        magnet_thickness_m=t.magnet_thickness,
+        magnet_depth_m=t.magnet_depth,
+        magnet_offset_m=t.magnet_offset,
+        array_position_m=t.array_position,
+        friction_share=t.friction_share,
     )
 
 

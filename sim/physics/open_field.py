@@ -67,11 +67,16 @@ from sim.physics.seawater import WaterState
 
 __all__ = [
     "OpenFieldArray",
+    "OpenFieldConstants",
     "OpenFieldPoint",
     "fields_at",
     "force_per_area_pa",
+    "hull_friction_change_n",
     "open_field_operating_point",
+    "open_field_point",
+    "prepare_open_field",
     "resistance_ohm",
+    "surface_field_t",
 ]
 
 _MODEL = "open-field thruster"
@@ -397,28 +402,191 @@ def open_field_operating_point(
     v0 = float(speed_m_s)
     if not (math.isfinite(v0) and v0 >= 0.0):
         raise ModelRangeError("speed_m_s", v0, "finite and ≥ 0 m/s", _MODEL)
+    return open_field_point(
+        prepare_open_field(arr, water),
+        v0,
+        voltage_v=voltage_v,
+        current_a=current_a,
+        electrode_drop_v=electrode_drop_v,
+        galvanic_offset_v=galvanic_offset_v,
+        chlorine_fraction=chlorine_fraction,
+    )
+
+
+@dataclass(frozen=True)
+class OpenFieldConstants:
+    """What an operating point of an open-field array needs, computed once per array and water
+    (:func:`prepare_open_field`).
+
+    Attributes
+    ----------
+    resistance_ohm : float
+        Water resistance between the electrodes [Ω] (:func:`resistance_ohm`).
+    force_per_ampere_n_a : float
+        Lorentz force per ampere at the array's remanence, c = f(1 A)·A [N/A].
+    k1_per_m : float
+        Wavenumber of the fundamental, π/pitch [1/m].
+    span_m : float
+        Width of the array across the flow [m].
+    position_from_bow_m : float
+        Bow to the middle of the array [m].
+    bl_friction_share : float
+        κ of the boundary-layer friction model [-].
+    rho_kg_m3, nu_m2_s : float
+        Density [kg/m³] and kinematic viscosity [m²/s] of the water.
+    """
+
+    resistance_ohm: float
+    force_per_ampere_n_a: float
+    k1_per_m: float
+    span_m: float
+    position_from_bow_m: float
+    bl_friction_share: float
+    rho_kg_m3: float
+    nu_m2_s: float
+
+
+def prepare_open_field(arr: OpenFieldArray, water: WaterState) -> OpenFieldConstants:
+    """The constants of :func:`open_field_point` for one array in one water.
+
+    Parameters
+    ----------
+    arr : OpenFieldArray
+    water : WaterState
+
+    Returns
+    -------
+    OpenFieldConstants
+
+    References
+    ----------
+    Module docstring (resistance series and force series).
+    """
+    return OpenFieldConstants(
+        resistance_ohm=resistance_ohm(arr, water.sigma_s_m),
+        force_per_ampere_n_a=force_per_area_pa(arr, 1.0) * arr.area_m2,
+        k1_per_m=math.pi / arr.pitch_m,
+        span_m=arr.span_m,
+        position_from_bow_m=arr.position_from_bow_m,
+        bl_friction_share=arr.bl_friction_share,
+        rho_kg_m3=water.rho_kg_m3,
+        nu_m2_s=water.nu_m2_s,
+    )
+
+
+def surface_field_t(arr: OpenFieldArray) -> float:
+    """Amplitude of the fundamental of B at the wetted surface [T] (the field the water meets,
+    a single number for logs): b_1 = (2Br/π) sin(π w_m/(2p)) (1 − e^{−k1 t}) e^{−k1 d}.
+
+    Parameters
+    ----------
+    arr : OpenFieldArray
+
+    Returns
+    -------
+    float
+        [T]
+
+    References
+    ----------
+    Furlani (2001), charge model of a periodic array (module docstring).
+    """
+    return float(_harmonics(arr, 1)[2][0])
+
+
+def hull_friction_change_n(c: OpenFieldConstants, force_n: float, speed_m_s: float) -> float:
+    """Extra hull friction drag from the layer the array accelerates [N] (≥ 0).
+
+    Parameters
+    ----------
+    c : OpenFieldConstants
+    force_n : float
+        Lorentz force on the water [N].
+    speed_m_s : float
+        Ship speed through the water [m/s] (its magnitude sets the boundary layer).
+
+    Returns
+    -------
+    float
+        ΔD = κ|F|(1 − e^{−2k1δ}), δ = 0.37x Re_x^(−1/5) (|F|·κ at zero speed).
+
+    References
+    ----------
+    Schlichting & Gersten (2017) (turbulent flat plate); the share κ is a model assumption
+    (module docstring).
+    """
+    v0 = abs(float(speed_m_s))
+    if force_n == 0.0:
+        return 0.0
+    if v0 > 0.0:
+        x = c.position_from_bow_m
+        delta = 0.37 * x * (v0 * x / c.nu_m2_s) ** -0.2
+        return c.bl_friction_share * abs(force_n) * (1.0 - math.exp(-2.0 * c.k1_per_m * delta))
+    return c.bl_friction_share * abs(force_n)
+
+
+def open_field_point(
+    c: OpenFieldConstants,
+    speed_m_s: float,
+    *,
+    voltage_v: float | None = None,
+    current_a: float | None = None,
+    field_scale: float = 1.0,
+    electrode_drop_v: float = 2.0,
+    galvanic_offset_v: float = 0.0,
+    chlorine_fraction: float = 1.0,
+    anodic_gas: bool = True,
+) -> OpenFieldPoint:
+    """Operating point of an open-field array from its constants (the fast path of
+    :func:`open_field_operating_point`; the ship may also move astern, V0 < 0).
+
+    Parameters
+    ----------
+    c : OpenFieldConstants
+    speed_m_s : float
+        Ship speed through the water V0 [m/s] (negative astern).
+    voltage_v, current_a : float, optional
+        Exactly one of supply voltage [V] and current [A].
+    field_scale : float
+        Field over the field at the array's remanence [-] (magnet temperature); the force per
+        ampere scales with it, the resistance does not.
+    electrode_drop_v, galvanic_offset_v, chlorine_fraction : float
+        As in :class:`sim.physics.thruster.DuctThruster`.
+    anodic_gas : bool
+        False for a sacrificial anode (it dissolves: no O2 or Cl2; H2 at the cathode stays).
+
+    Returns
+    -------
+    OpenFieldPoint
+
+    Notes
+    -----
+    V = I R + c V0 + V_g + sign(I) V_d, no current inside the dead band |V − V_g − cV0| ≤ V_d;
+    V·I = electrode loss + I²R + F·V0 exactly.
+
+    References
+    ----------
+    Way (1968); module docstring.
+    """
+    v0 = float(speed_m_s)
     vd = float(electrode_drop_v)
     vg = float(galvanic_offset_v)
-    r = resistance_ohm(arr, water.sigma_s_m)
-    c = force_per_area_pa(arr, 1.0) * arr.area_m2  # N/A
+    r = c.resistance_ohm
+    cf = c.force_per_ampere_n_a * float(field_scale)
     if current_a is not None:
         i = float(current_a)
-        v = i * r + c * v0 + vg + (math.copysign(vd, i) if i != 0.0 else 0.0)
+        v = i * r + cf * v0 + vg + (math.copysign(vd, i) if i != 0.0 else 0.0)
     else:
         v = float(voltage_v)
-        net = v - vg - c * v0
+        net = v - vg - cf * v0
         i = math.copysign(max(abs(net) - vd, 0.0), net) / r
-    force = c * i
-    k1 = math.pi / arr.pitch_m
-    x = arr.position_from_bow_m
-    if v0 > 0.0:
-        re_x = v0 * x / water.nu_m2_s
-        delta = 0.37 * x * re_x**-0.2
-        ratio = abs(force) / (water.rho_kg_m3 * v0 * v0 * arr.span_m / (2.0 * k1))
+    force = cf * i
+    av = abs(v0)
+    if av > 0.0:
+        ratio = abs(force) / (c.rho_kg_m3 * av * av * c.span_m / (2.0 * c.k1_per_m))
     else:
-        delta = math.inf
         ratio = math.inf if force != 0.0 else 0.0
-    d_drag = arr.bl_friction_share * abs(force) * (1.0 - math.exp(-2.0 * k1 * delta))
+    d_drag = hull_friction_change_n(c, force, v0)
     thrust = force - math.copysign(d_drag, force) if force != 0.0 else 0.0
     p_el = v * i
     joule = i * i * r
@@ -426,13 +594,15 @@ def open_field_operating_point(
     flow = force * v0
     useful = thrust * v0
     h2, cl2, o2 = gas_rates_mol_s(i, chlorine_fraction)
+    if not anodic_gas:
+        cl2 = o2 = 0.0
     return OpenFieldPoint(
         thrust_n=thrust,
         lorentz_force_n=force,
         hull_friction_change_n=d_drag,
         current_a=i,
         voltage_v=v,
-        back_emf_v=c * v0,
+        back_emf_v=cf * v0,
         resistance_ohm=r,
         electrical_power_w=p_el,
         joule_loss_w=joule,
