@@ -303,3 +303,21 @@ def test_thruster_curves_table_names_the_buildable_best_and_the_maps_edge(capsys
     assert {"design", "best on the map", "best buildable"} <= set(rows)
     assert rows["best buildable"]["field [T]"] <= 1.2 + 1e-9  # permanent magnets: common practice
     assert "edge" in rows["best on the map"]["note"]
+
+
+def test_thruster_curves_of_an_open_field_array_give_its_own_performance_only(capsys, tmp_path):
+    """An open-field array has no duct flow and no electrode gap: the duct figures (thrust–flow
+    family, gap × field map) are not drawn from a placeholder duct; its steady performance is."""
+    here = os.getcwd()
+    os.chdir(Path(__file__).resolve().parents[1])
+    try:
+        code = main(
+            ["thruster-curves", "vessels/glasswort-open-field.toml", "--plots", str(tmp_path)]
+        )
+    finally:
+        os.chdir(here)
+    out = capsys.readouterr()
+    assert code == 0
+    assert "open-field array" in out.out + out.err
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert names and all(n.endswith("-speed.png") for n in names)

@@ -8,7 +8,7 @@ from pathlib import Path
 
 from sim.analysis.units import output_units
 from sim.cli import options
-from sim.cli.core import EXIT_OK, OptionError, print_cautions
+from sim.cli.core import EXIT_OK, OptionError, esc, print_cautions
 from sim.cli.output import TableOutput, add_format
 from sim.io import budget
 
@@ -74,17 +74,30 @@ def cmd_thruster_curves(args) -> int:
         raise OptionError(why)
     grid = default_speed_grid(plant, 24)
     speed = options.speed(args.speed, "--speed") if args.speed else 0.6 * grid[-1]
-    fam = cv.thrust_flow_family(plant, k, voltages_v=volts)
+    # the thrust–flow family and the gap × field map are duct figures: an open-field array has
+    # no duct flow and no electrode gap, so for it only the steady performance is given
+    ducted = plant.thrusters[k].open_field is None
+    fam = cv.thrust_flow_family(plant, k, voltages_v=volts) if ducted else None
     sc = cv.speed_curves(plant, grid)
     n = args.grid
-    emap = cv.efficiency_map(
-        plant,
-        k,
-        speed_m_s=speed,
-        gaps_m=np.geomspace(min(gaps), max(gaps), n) if gaps else None,
-        fields_t=np.geomspace(min(fields), max(fields), n) if fields else None,
-        n=n,
+    emap = (
+        cv.efficiency_map(
+            plant,
+            k,
+            speed_m_s=speed,
+            gaps_m=np.geomspace(min(gaps), max(gaps), n) if gaps else None,
+            fields_t=np.geomspace(min(fields), max(fields), n) if fields else None,
+            n=n,
+        )
+        if ducted
+        else None
     )
+    if not ducted:
+        con.print(
+            f"note: thruster {esc(repr(name))} is an open-field array: the thrust–flow family and "
+            "the gap × field map apply to ducts only; the steady performance below is its own",
+            soft_wrap=True,
+        )
 
     def pct(x) -> float:
         return 100 * float(x) if math.isfinite(x) else math.nan
@@ -120,7 +133,7 @@ def cmd_thruster_curves(args) -> int:
             tuple(rows),
         )
     )
-    z = emap.overall_efficiency
+    z = emap.overall_efficiency if emap is not None else np.array([np.nan])
     if np.isfinite(z).any():
         map_rows = [
             (
@@ -179,23 +192,25 @@ def cmd_thruster_curves(args) -> int:
         from sim.analysis import plots
 
         stem = Path(args.plots) / f"{Path(args.vessel).stem}-{name}"
-        options.save_figure(
-            plots.thrust_flow_figure(fam),
-            stem.with_name(stem.name + "-thrust-flow"),
-            args.pdf,
-            con,
-        )
+        if fam is not None:
+            options.save_figure(
+                plots.thrust_flow_figure(fam),
+                stem.with_name(stem.name + "-thrust-flow"),
+                args.pdf,
+                con,
+            )
         options.save_figure(
             plots.speed_curves_figure(sc, u, title=f"{plant.name}: steady performance"),
             stem.with_name(stem.name + "-speed"),
             args.pdf,
             con,
         )
-        options.save_figure(
-            plots.efficiency_map_figure(emap, u),
-            stem.with_name(stem.name + "-map"),
-            args.pdf,
-            con,
-        )
+        if emap is not None:
+            options.save_figure(
+                plots.efficiency_map_figure(emap, u),
+                stem.with_name(stem.name + "-map"),
+                args.pdf,
+                con,
+            )
     print_cautions(con)
     return EXIT_OK
