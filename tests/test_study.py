@@ -504,3 +504,24 @@ def test_a_killed_study_keeps_every_row_it_reported(tmp_path):
     resumed = run_study(p, out=out, jobs=2)
     assert resumed.flown == 8 - len(kept)
     assert len(read_table(out)) == 8
+
+
+def test_a_study_varies_a_thruster_layout_s_own_keys(tmp_path):
+    """Issue 13: layouts take part in studies like the straight duct: a channel stack's count of
+    channels is varied as any other dotted key, and the count changes what the thrusters draw
+    (REFERENCES.md: splitting a channel keeps field and resistance per channel, area × N)."""
+    stack = (ROOT / "vessels" / "glasswort-stack.toml").as_posix()
+    text = TINY.replace(
+        'outputs = ["distance_m", "total_mass_kg", "h2_mol_per_h"]',
+        f'vessel = "{stack}"\noutputs = ["distance_m", "h2_mol_per_h"]',
+    )
+    a = text.index("[[vary]]")
+    b = text.index("[[constraint]]")
+    text = text[:a] + '[[vary]]\nkey = "thruster.pylon.stack_count"\nvalues = [2, 6]\n\n' + text[b:]
+    res = run_study(_write(tmp_path, text), out=tmp_path / "r.h5", jobs=1)
+    rows = read_table(tmp_path / "r.h5")
+    assert res.flown == 2 and all(r["ok"] for r in rows)
+    by_count = {int(r["thruster.pylon.stack_count"]): r for r in rows}
+    assert set(by_count) == {2, 6}
+    # both flew the 10-minute hold; the gas (∝ current) differs with the flow area
+    assert by_count[2]["h2_mol_per_h"] != pytest.approx(by_count[6]["h2_mol_per_h"], rel=1e-3)
