@@ -555,6 +555,7 @@ class _Consts:
         "k_noz",
         "lam",
         "length",
+        "memo",
         "mu",
         "n",
         "r",
@@ -601,6 +602,10 @@ class _Consts:
         self.beta = w.dsigma_dt_s_m_k
         self.dt_cap = max(BOILING_C - w.t_c, 0.0)
         self.sig_cap = self.sig_in + self.beta * self.dt_cap / 2.0
+        # results of `_iterate_scalar` by (V0, command, thermal, B): the ODE solvers evaluate
+        # the same state more than once (and the dead-band flow repeats), so a repeat costs a
+        # dict look-up; the values are the same floats as a fresh solve
+        self.memo: dict = {}
 
 
 # --------------------------------------------------------------------------------------------
@@ -1254,7 +1259,23 @@ def _bisect_u_scalar(k: _Consts, v0: float, resid, u_guess: float):
     )
 
 
+_MEMO_MAX = 4096
+"""Entries kept in a `_Consts` memo before it is cleared (bounds memory on long runs)."""
+
+
 def _iterate_scalar(k: _Consts, v0: float, e_s: float | None, dpl: float, thermal: bool):
+    key = (v0, e_s, dpl, thermal, k.b)
+    memo = k.memo
+    hit = memo.get(key)
+    if hit is not None:
+        return hit
+    if len(memo) >= _MEMO_MAX:
+        memo.clear()
+    out = memo[key] = _iterate_scalar_solve(k, v0, e_s, dpl, thermal)
+    return out
+
+
+def _iterate_scalar_solve(k: _Consts, v0: float, e_s: float | None, dpl: float, thermal: bool):
     voltage_mode = e_s is not None
     sig = k.sig_in
     if voltage_mode:
