@@ -542,8 +542,10 @@ class _Consts:
         "area",
         "b",
         "beta",
+        "cf0",
         "cp",
         "d_h",
+        "dh2",
         "disk",
         "dt_cap",
         "eps",
@@ -551,18 +553,25 @@ class _Consts:
         "gap",
         "gas",
         "h",
+        "half_rho",
+        "inv_r2",
         "k_in",
+        "k_in1",
         "k_noz",
+        "k_noz_r2",
+        "l_dh",
         "lam",
         "length",
         "memo",
         "mu",
         "n",
         "r",
+        "r2",
         "rho",
         "sig_cap",
         "sig_in",
         "slip",
+        "two_rho",
         "vd",
         "vg",
         "vpc",
@@ -606,6 +615,17 @@ class _Consts:
         # the same state more than once (and the dead-band flow repeats), so a repeat costs a
         # dict look-up; the values are the same floats as a fresh solve
         self.memo: dict = {}
+        # products that `_step_scalar` needs on every call, formed in the same order as there
+        # (so the results are the same floats)
+        self.l_dh = self.length / self.d_h
+        self.cf0 = 0.5 * self.mu * self.length
+        self.dh2 = self.d_h * self.d_h
+        self.r2 = self.r * self.r
+        self.inv_r2 = 1.0 / self.r2
+        self.k_noz_r2 = self.k_noz / self.r2
+        self.k_in1 = 1.0 + self.k_in
+        self.half_rho = 0.5 * self.rho
+        self.two_rho = 2.0 * self.rho
 
 
 # --------------------------------------------------------------------------------------------
@@ -1117,27 +1137,25 @@ def _step_scalar(k: _Consts, v0: float, p: float, c_em: float, u_prev: float, wa
     if wall and k.wall:
         re = k.rho * abs(u_prev) * k.d_h / k.mu
         fre, fq, m = friction_terms_scalar(re, k.eps, k.alpha)
-        kfq = k.length / k.d_h * fq
-        cf = 0.5 * k.mu * k.length * (-m) * fre / (k.d_h * k.d_h)
+        kfq = k.l_dh * fq
+        cf = k.cf0 * (-m) * fre / k.dh2
     else:
         kfq = cf = 0.0
-    r2 = k.r * k.r
-    kl = k.k_in + kfq + k.k_noz / r2
+    kl = k.k_in + kfq + k.k_noz_r2
     c = c_em + cf
-    q = 0.5 * k.rho * v0 * v0
-    drive = p + q
+    drive = p + k.half_rho * v0 * v0
     if drive >= 0.0:
-        kk = 1.0 / r2 + kl
+        kk = k.inv_r2 + kl
         sgn = 1.0
     else:
-        kk = 1.0 + k.k_in + kfq + k.k_noz
+        kk = k.k_in1 + kfq + k.k_noz
         sgn = -1.0
     d = abs(drive)
-    den = c + math.sqrt(c * c + 2.0 * k.rho * kk * d)
+    den = c + math.sqrt(c * c + k.two_rho * kk * d)
     u = sgn * 2.0 * d / den if den != 0.0 else 0.0
     if k.disk:
-        a = 0.5 * k.rho * (4.0 + kl)
-        bq = c - 2.0 * k.rho * v0
+        a = k.half_rho * (4.0 + kl)
+        bq = c - k.two_rho * v0
         if p >= a * v0 * v0 / 4.0 + bq * v0 / 2.0:
             sq = math.sqrt(max(bq * bq + 4.0 * a * p, 0.0))
             if bq >= 0.0:
