@@ -348,6 +348,12 @@ def friction_pressure_drop_pa(
     return float(dp) if dp.ndim == 0 else dp
 
 
+_C_LAM: dict[float, float] = {}
+"""Laminar f·Re of `friction_terms_scalar` by aspect ratio (Shah & London polynomial) [-]."""
+_TWO_LN10 = 2.0 / _LN10
+"""2/ln 10, the derivative factor of the Colebrook iteration [-]."""
+
+
 def friction_terms_scalar(re: float, rel_roughness: float, aspect_ratio: float):
     """Scalar twin of `friction_terms` in pure Python (fast path for ODE right-hand sides).
 
@@ -374,20 +380,24 @@ def friction_terms_scalar(re: float, rel_roughness: float, aspect_ratio: float):
     Colebrook (1939); Swamee & Jain (1976); Shah & London (1978).
     """
     a = aspect_ratio
-    c = _SHAH_LONDON
-    c_lam = 96.0 * (c[0] + a * (c[1] + a * (c[2] + a * (c[3] + a * (c[4] + a * c[5])))))
+    c_lam = _C_LAM.get(a)
+    if c_lam is None:
+        c = _SHAH_LONDON
+        c_lam = 96.0 * (c[0] + a * (c[1] + a * (c[2] + a * (c[3] + a * (c[4] + a * c[5])))))
+        _C_LAM[a] = c_lam
     if re < RE_LAMINAR_MAX:
         return c_lam, 0.0, -1.0
     ea = rel_roughness / 3.7
     b = 2.51 / re
     x = -2.0 * math.log10(ea + 5.74 * re**-0.9)
+    log10 = math.log10
     for _ in range(30):
         arg = ea + b * x
-        dx = (x + 2.0 * math.log10(arg)) / (1.0 + (2.0 / _LN10) * b / arg)
+        dx = (x + 2.0 * log10(arg)) / (1.0 + _TWO_LN10 * b / arg)
         x -= dx
         if abs(dx) <= _COLEBROOK_TOL * abs(x):
             break
-    h = (2.0 / _LN10) * b / (ea + b * x)
+    h = _TWO_LN10 * b / (ea + b * x)
     f_t = 1.0 / (x * x)
     m_t = -2.0 * h / (1.0 + h)
     if re >= RE_TURBULENT_MIN:
