@@ -294,6 +294,24 @@ def test_any_split_of_finite_data_round_trips(
         np.testing.assert_array_equal(log.series[name], v)
 
 
+def test_appended_arrays_are_copied_and_buffers_grow(tmp_path: Path) -> None:
+    # The writer keeps growing buffers: many small appends (past several capacity doublings)
+    # read back exactly, and changing the caller's arrays after append() changes nothing.
+    path = tmp_path / "run.h5"
+    t = np.arange(5000, dtype=float)
+    w = _writer(path, flush_interval_s=0.0)
+    for part in np.array_split(t, 37):
+        block = _samples(part.copy())
+        w.append(block)
+        w.maybe_flush()
+        for v in block.values():
+            v[...] = 0
+    w.close("done")
+    log = read_log(path)
+    for name, v in _samples(t).items():
+        np.testing.assert_array_equal(log.series[name], v)
+
+
 def test_to_dataframe_splits_thruster_columns(tmp_path: Path) -> None:
     pytest.importorskip("pandas")
     w = _writer(tmp_path / "run.h5")

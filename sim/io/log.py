@@ -494,7 +494,8 @@ def _first_bad(bad: np.ndarray) -> tuple[int, int | None]:
 
 
 def _coerce_channel(name: str, spec: ChannelSpec, value: object, offset: int) -> np.ndarray:
-    """Return a private, checked (n, [ncols]) array of the channel's dtype."""
+    """Return a checked (n, [ncols]) array of the channel's dtype (a view of ``value`` when no
+    conversion is needed: the caller copies it into the writer's buffer)."""
     arr = np.asarray(value)
     want_ndim = 1 if spec.columns is None else 2
     if arr.ndim == want_ndim - 1:  # a single sample
@@ -516,7 +517,7 @@ def _coerce_channel(name: str, spec: ChannelSpec, value: object, offset: int) ->
             idx = (row,) if col is None else (row, col)
             raise LogDataError(name, offset + row, float(arr[idx]), column=column(col))
     if spec.dtype == _F8:
-        return np.array(arr, dtype=_F8, copy=True)
+        return np.asarray(arr, dtype=_F8)
     # int32 channel
     if kind == "f":
         bad = arr != np.round(arr)
@@ -534,7 +535,7 @@ def _coerce_channel(name: str, spec: ChannelSpec, value: object, offset: int) ->
         row, col = _first_bad(bad)
         idx = (row,) if col is None else (row, col)
         raise LogDataError(name, offset + row, arr[idx].item(), column=column(col), problem=problem)
-    return np.array(arr, dtype=_I4, copy=True)
+    return np.asarray(arr, dtype=_I4)
 
 
 def _attr_value(where: str, value: object) -> str | int | float | bool:
@@ -927,7 +928,15 @@ class RunLogWriter:
         self._root = root
 
         # --- buffers
-        self._chunks: dict[str, list[np.ndarray]] = {name: [] for name in self._order}
+        # one growing array per channel (capacity doubles; rows past self._n are unused and,
+        # being untouched pages of a fresh allocation, cost no resident memory)
+        self._bufs: dict[str, np.ndarray] = {
+            name: np.empty(
+                (0,) if specs[name].columns is None else (0, len(specs[name].columns)),
+                dtype=specs[name].dtype,
+            )
+            for name in self._order
+        }
         self._n = 0
         self._last_time = -math.inf
         self._events: list[tuple[float, str, int, str]] = []
@@ -1069,9 +1078,15 @@ class RunLogWriter:
                     problem=f"is earlier than the sample before it ({float(prev[row])!r} s)",
                 )
             self._last_time = float(t[-1])
+        end = self._n + n
         for name, arr in arrays.items():
-            self._chunks[name].append(arr)
-        self._n += n
+            buf = self._bufs[name]
+            if end > buf.shape[0]:
+                grown = np.empty((max(end, 2 * buf.shape[0], 1024), *buf.shape[1:]), buf.dtype)
+                grown[: self._n] = buf[: self._n]
+                self._bufs[name] = buf = grown
+            buf[self._n : end] = arr
+        self._n = end
         self._dirty = self._dirty or n > 0
 
     def add_event(self, time_s: float, kind: str, leg: int, message: str) -> None:
@@ -1142,14 +1157,8 @@ class RunLogWriter:
 
     # ---------------------------------------------------------------- writing
     def _series(self, name: str) -> np.ndarray:
-        chunks = self._chunks[name]
-        if len(chunks) > 1:  # consolidate so later flushes do not concatenate again
-            chunks[:] = [np.concatenate(chunks, axis=0)]
-        if chunks:
-            return chunks[0]
-        spec = self._specs[name]
-        shape = (0,) if spec.columns is None else (0, len(spec.columns))
-        return np.empty(shape, dtype=spec.dtype)
+        """The samples of one channel so far: a view of its buffer (no copy)."""
+        return self._bufs[name][: self._n]
 
     def _now(self) -> _Snapshot:
         return _Snapshot(
