@@ -180,6 +180,31 @@ def _options(obj) -> dict:
 _DEFAULTS = {f.name: f.default for f in fields(DuctThruster) if f.name in DUCT_OPTION_NAMES}
 
 
+@dataclass(frozen=True, kw_only=True)
+class _WallOptions:
+    """Loss and electrode options shared with :class:`DuctThruster` (same meanings and defaults),
+    keyword-only so each layout keeps its own positional geometry first."""
+
+    roughness_m: float = 0.0
+    k_inlet: float = _DEFAULTS["k_inlet"]
+    k_nozzle: float = _DEFAULTS["k_nozzle"]
+    jet_model: str = _DEFAULTS["jet_model"]
+    electrode_drop_v: float = _DEFAULTS["electrode_drop_v"]
+    chlorine_fraction: float = _DEFAULTS["chlorine_fraction"]
+    wall_friction: bool = _DEFAULTS["wall_friction"]
+    galvanic_offset_v: float = _DEFAULTS["galvanic_offset_v"]
+    gas_model: str = _DEFAULTS["gas_model"]
+    gas_slip_ratio: float = _DEFAULTS["gas_slip_ratio"]
+    end_effects: bool = _DEFAULTS["end_effects"]
+
+
+@dataclass(frozen=True, kw_only=True)
+class _DuctOptions(_WallOptions):
+    """:class:`_WallOptions` plus the nozzle area ratio (layouts whose outlet is a plain duct)."""
+
+    nozzle_area_ratio: float = _DEFAULTS["nozzle_area_ratio"]
+
+
 # --------------------------------------------------------------------------------------------
 # channel stack
 # --------------------------------------------------------------------------------------------
@@ -239,7 +264,7 @@ def stack_as_duct(stack: ChannelStack) -> DuctThruster:
 
 
 @dataclass(frozen=True)
-class AnnularThruster:
+class AnnularThruster(_DuctOptions):
     """Annular MHD thruster: radial current between ring electrodes, azimuthal field.
 
     Attributes
@@ -261,18 +286,6 @@ class AnnularThruster:
     length_m: float
     b_tesla: float
     field_profile: str = "toroidal"
-    roughness_m: float = 0.0
-    k_inlet: float = _DEFAULTS["k_inlet"]
-    k_nozzle: float = _DEFAULTS["k_nozzle"]
-    nozzle_area_ratio: float = _DEFAULTS["nozzle_area_ratio"]
-    jet_model: str = _DEFAULTS["jet_model"]
-    electrode_drop_v: float = _DEFAULTS["electrode_drop_v"]
-    chlorine_fraction: float = _DEFAULTS["chlorine_fraction"]
-    wall_friction: bool = _DEFAULTS["wall_friction"]
-    galvanic_offset_v: float = _DEFAULTS["galvanic_offset_v"]
-    gas_model: str = _DEFAULTS["gas_model"]
-    gas_slip_ratio: float = _DEFAULTS["gas_slip_ratio"]
-    end_effects: bool = _DEFAULTS["end_effects"]
 
     def __post_init__(self) -> None:
         r1 = _pos("inner_radius_m", self.inner_radius_m)
@@ -373,7 +386,7 @@ def annular_as_duct(th: AnnularThruster) -> EquivalentDuct:
 
 
 @dataclass(frozen=True)
-class RingOfTubes:
+class RingOfTubes(_DuctOptions):
     """Rectangular tubes on a ring in an azimuthal field (a variant of the annular thruster).
 
     Attributes
@@ -403,18 +416,6 @@ class RingOfTubes:
     length_m: float
     b_tesla: float
     field_profile: str = "toroidal"
-    roughness_m: float = 0.0
-    k_inlet: float = _DEFAULTS["k_inlet"]
-    k_nozzle: float = _DEFAULTS["k_nozzle"]
-    nozzle_area_ratio: float = _DEFAULTS["nozzle_area_ratio"]
-    jet_model: str = _DEFAULTS["jet_model"]
-    electrode_drop_v: float = _DEFAULTS["electrode_drop_v"]
-    chlorine_fraction: float = _DEFAULTS["chlorine_fraction"]
-    wall_friction: bool = _DEFAULTS["wall_friction"]
-    galvanic_offset_v: float = _DEFAULTS["galvanic_offset_v"]
-    gas_model: str = _DEFAULTS["gas_model"]
-    gas_slip_ratio: float = _DEFAULTS["gas_slip_ratio"]
-    end_effects: bool = _DEFAULTS["end_effects"]
 
     def __post_init__(self) -> None:
         if not 2.0 * _pos("ring_radius_m", self.ring_radius_m) > _pos(
@@ -471,7 +472,7 @@ def ring_of_tubes_as_duct(th: RingOfTubes) -> DuctThruster:
 
 
 @dataclass(frozen=True)
-class HelicalThruster:
+class HelicalThruster(_WallOptions):
     """Helical-channel MHD thruster: solenoid field, radial current, helical passages, stator.
 
     Attributes
@@ -501,17 +502,6 @@ class HelicalThruster:
     helix_angle_deg: float
     n_vanes: int = 8
     stator_recovery: float = 0.6
-    roughness_m: float = 0.0
-    k_inlet: float = _DEFAULTS["k_inlet"]
-    k_nozzle: float = _DEFAULTS["k_nozzle"]
-    jet_model: str = _DEFAULTS["jet_model"]
-    electrode_drop_v: float = _DEFAULTS["electrode_drop_v"]
-    chlorine_fraction: float = _DEFAULTS["chlorine_fraction"]
-    wall_friction: bool = _DEFAULTS["wall_friction"]
-    galvanic_offset_v: float = _DEFAULTS["galvanic_offset_v"]
-    gas_model: str = _DEFAULTS["gas_model"]
-    gas_slip_ratio: float = _DEFAULTS["gas_slip_ratio"]
-    end_effects: bool = _DEFAULTS["end_effects"]
 
     def __post_init__(self) -> None:
         r1 = _pos("inner_radius_m", self.inner_radius_m)
