@@ -15,12 +15,12 @@ import os
 import signal
 import subprocess
 import sys
-import time
 from pathlib import Path
 
 import h5py
 import numpy as np
 import pytest
+from engine_helpers import start_long_run, wait_for_samples
 from rich.console import Console
 
 from sim.cli import main
@@ -321,60 +321,11 @@ def test_hostile_names_are_escaped_and_made_visible(capsys, tmp_path):
 
 # ------------------------------------------------------------------ 7. SIGTERM
 
-LONG = """
-[scenario]
-name = "long sigterm test"
-vessel = "{vessel}"
-
-[water]
-salinity = 35
-temperature = "15 degC"
-
-[output]
-sample = "1 s"
-
-[limits]
-time = "300 h"
-
-[solver]
-allow_large = true   # many samples on purpose: the run must still be going
-
-[[leg]]
-name = "a"
-voltage = "12 V"
-until = {{ duration = "20 s" }}
-
-[[leg]]
-name = "endless"
-voltage = "3 V"
-until = {{ duration = "300 h" }}
-"""
-
 
 @pytest.mark.skipif(os.name != "posix", reason="POSIX signals")
 def test_sigterm_ends_like_ctrl_c_with_exit_143(tmp_path):
-    scen = tmp_path / "long.toml"
-    scen.write_text(LONG.format(vessel=GLASSWORT), encoding="utf-8")
-    out = tmp_path / "long.h5"
-    incomplete = tmp_path / "long.incomplete.h5"
-    proc = subprocess.Popen(
-        [sys.executable, "-m", "sim.cli", "run", str(scen), "--out", str(out), "--quiet"],
-        cwd=tmp_path,
-        env=_env(),
-        stdout=subprocess.PIPE,
-        stderr=subprocess.PIPE,
-        text=True,
-    )
-    deadline = time.monotonic() + 60
-    while time.monotonic() < deadline:
-        assert proc.poll() is None, proc.communicate()
-        try:
-            with h5py.File(incomplete, "r") as f:
-                if len(f["series/time_s"]) >= 3:
-                    break
-        except (OSError, KeyError):
-            pass
-        time.sleep(0.05)
+    proc, out, incomplete = start_long_run(tmp_path, env=_env())
+    wait_for_samples(proc, incomplete)
     proc.send_signal(signal.SIGTERM)
     stdout, stderr = proc.communicate(timeout=60)
     assert proc.returncode == EXIT_TERMINATED == 143, stderr
