@@ -52,6 +52,7 @@ from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
 from sim.physics.constants import KNOT_M_S
+from sim.physics.gas import mean_void_fraction, outlet_void_fraction
 from sim.physics.roots import brent_root
 
 __all__ = [
@@ -308,16 +309,22 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         for q, f in enumerate(_LIST_FIELDS):
             li[q, j] = getattr(s, f)
         speed = float(y[I_V])
-        extra = model.duct_extras(s, speed)
-        li[len(_LIST_FIELDS), j] = extra["end_current_a"]
-        li[len(_LIST_FIELDS) + 1, j] = extra["void_mean"]
-        li[len(_LIST_FIELDS) + 2, j] = extra["void_outlet"]
+        li[len(_LIST_FIELDS), j], li[len(_LIST_FIELDS) + 1, j] = model.end_current_and_gas_load(
+            s, speed
+        )
         v_rc = float(y[I_RC1]) + float(y[I_RC2])
         chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
         flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
         short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
         w = s.water
         wat[j] = (w.sp, w.t_c, w.sigma_s_m, s.current_m_s)
+    # the void fractions of the whole block at once, from the gas load a (row len(_LIST_FIELDS)
+    # + 1 holds a until here)
+    load = li[len(_LIST_FIELDS) + 1]
+    for k in range(nthr):
+        slip = model.gas_slip(k)
+        li[len(_LIST_FIELDS) + 2, :, k] = outlet_void_fraction(load[:, k], slip)
+        load[:, k] = mean_void_fraction(load[:, k], slip)
     col = dict(zip(_SCALAR_FIELDS, sc.T, strict=True))
     per = dict(zip(_LIST_FIELDS, li, strict=False))
     speed = ys[I_V].copy()

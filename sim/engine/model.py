@@ -458,17 +458,40 @@ class VesselModel:
 
         Notes
         -----
+        See :meth:`end_current_and_gas_load`; the void fractions follow from the gas load by
+        :func:`sim.physics.gas.mean_void_fraction` and
+        :func:`~sim.physics.gas.outlet_void_fraction`.
+        """
+        end, load = self.end_current_and_gas_load(s, speed)
+        vmean, vout = [], []
+        for k, a in enumerate(load):
+            slip = self.gas_slip(k)
+            vmean.append(float(mean_void_fraction(a, slip)))
+            vout.append(float(outlet_void_fraction(a, slip)))
+        return {"end_current_a": end, "void_mean": vmean, "void_outlet": vout}
+
+    def gas_slip(self, k: int) -> float:
+        """Slip ratio of the gas in the channels of design k [-] (1 for an open-field array,
+        whose gas load is always 0)."""
+        return 1.0 if self.plant.thrusters[k].open_field is not None else self._consts[k].slip
+
+    def end_current_and_gas_load(self, s: Snapshot, speed: float) -> tuple[list, list]:
+        """Per design: the fringing current at the channel ends [A] (all units) and the gas
+        load a = Q_gas/Q_water at the channel outlet [-] (0 for an open-field array: no channel
+        ends, no duct for gas to fill).
+
+        Notes
+        -----
         With V_w = V − V_g − sign(I)·V_d across the water of one channel and the parallel
         equivalent current I = N·h·σ·(L·(E − uB) + Λ·V_w), E = V_w/gap, the end current is
         I_end = I·Λ·V_w/(L·(E − uB) + Λ·V_w); the gas of the core current I − I_end gives
         a = v_C·|I_core|/(N·A·max(|u|, u_floor)) (`sim.physics.gas`).
         """
-        end, vmean, vout = [], [], []
+        end, load = [], []
         for k, (op, u) in enumerate(zip(s.ops, self.plant.thrusters, strict=True)):
-            if u.open_field is not None:  # no channel ends, no duct for gas to fill
+            if u.open_field is not None:
                 end.append(0.0)
-                vmean.append(0.0)
-                vout.append(0.0)
+                load.append(0.0)
                 continue
             kc = self._consts[k]
             n = u.series_factor
@@ -481,11 +504,9 @@ class VesselModel:
                 den = kc.length * (vw / kc.gap - ub) + kc.lam * vw
                 i_end = i_par * kc.lam * vw / den if den != 0.0 else 0.0
             ue = max(abs(float(op.duct_velocity_m_s)), U_FLOOR_M_S)
-            a = kc.vpc * abs(i_par - i_end) / (kc.n * kc.area * ue)
             end.append(i_end * u.units / n)
-            vmean.append(float(mean_void_fraction(a, kc.slip)))
-            vout.append(float(outlet_void_fraction(a, kc.slip)))
-        return {"end_current_a": end, "void_mean": vmean, "void_outlet": vout}
+            load.append(kc.vpc * abs(i_par - i_end) / (kc.n * kc.area * ue))
+        return end, load
 
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
