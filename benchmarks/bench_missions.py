@@ -34,6 +34,7 @@ from reference_engine import run_reference  # noqa: E402
 
 from sim import api  # noqa: E402
 from sim.engine.mission import MissionRunner  # noqa: E402
+from sim.engine.model import VesselModel  # noqa: E402
 
 HOLD = """
 [scenario]
@@ -140,6 +141,35 @@ def rss_child(write_log: bool) -> None:
         )
 
 
+def time_shares(path: Path) -> dict:
+    """One more engine run of a case with the model's algebra timed (its physics: thrusters,
+    pack, hull, thermal) against the rest (integrator, right-hand-side assembly, conditions,
+    sample rows, summary): the rest bounds what a faster physics alone can give."""
+    loaded = api.load_scenario(path)
+    plant = api.plant_for(loaded)
+    spec = loaded.mission_spec
+    MissionRunner(plant, spec).run()
+    spent = [0.0, 0]
+    inner = VesselModel._evaluate
+
+    def timed(self, y):
+        t0 = time.perf_counter()
+        try:
+            return inner(self, y)
+        finally:
+            spent[0] += time.perf_counter() - t0
+            spent[1] += 1
+
+    VesselModel._evaluate = timed
+    try:
+        t0 = time.perf_counter()
+        MissionRunner(plant, spec).run()
+        total = time.perf_counter() - t0
+    finally:
+        VesselModel._evaluate = inner
+    return {"total": total, "physics": spent[0], "evaluations": spent[1]}
+
+
 def mark(ok: bool) -> str:
     return "ok " if ok else "MISS"
 
@@ -175,6 +205,7 @@ def main() -> None:
             run_case(label, path, target, args.n, args.method, args.rtol)
             for label, path, target in cases
         ]
+        shares = [time_shares(path) for _, path, _ in cases]
     print("brinebolt engine vs the obvious implementation (LSODA rtol 1e-6 + brentq in the RHS)")
     print(f"best of {args.n} after a warm-up; wall seconds; per simulated hour in ms\n")
     head = (
@@ -199,6 +230,19 @@ def main() -> None:
             f"  {'':30s} speed-up {speed:7.2f}x  [{mark(speed >= TARGET_SPEEDUP)} ≥ "
             f"{TARGET_SPEEDUP:g}x]   engine {1e3 * r['t_eng']:8.1f} ms  "
             f"[{mark(r['t_eng'] <= r['target_s'])} ≤ {1e3 * r['target_s']:g} ms]"
+        )
+    print(
+        "\nwhere the engine's time goes (one more run each; the model's algebra timed, so the "
+        "timer's own cost is in it)"
+    )
+    for r, sh in zip(rows, shares, strict=True):
+        rest = sh["total"] - sh["physics"]
+        print(
+            f"  {r['label']:30s} physics {1e3 * sh['physics']:6.1f} ms "
+            f"({100 * sh['physics'] / sh['total']:3.0f} %, {sh['evaluations']} evaluations, "
+            f"{1e6 * sh['physics'] / max(sh['evaluations'], 1):5.1f} µs each)   the rest "
+            f"{1e3 * rest:6.1f} ms: with the physics free the engine would still take "
+            f"{1e3 * rest:.0f} ms"
         )
     for how in () if args.no_rss else ("log", "nolog"):
         proc = subprocess.run(
