@@ -181,10 +181,21 @@ def main() -> None:
     ap.add_argument("--method", help="the engine's [solver] method (default: each file's)")
     ap.add_argument("--rtol", type=float, help="the engine's rtol (default: each file's)")
     ap.add_argument("--no-rss", action="store_true", help="skip the memory measurement")
+    ap.add_argument(
+        "--rss-only", action="store_true", help="only the memory measurement (no timing cases)"
+    )
     args = ap.parse_args()
     if args.rss_child:
         rss_child(args.rss_child == "log")
         return
+    if not args.rss_only:
+        timing(args)
+    for how in () if args.no_rss else ("log", "nolog"):
+        rss_line(how)
+
+
+def timing(args: argparse.Namespace) -> None:
+    """Run the timing cases against the reference and print the table and the targets."""
     with tempfile.TemporaryDirectory() as d:
         folder = Path(d)
         cases = [
@@ -244,21 +255,24 @@ def main() -> None:
             f"{1e3 * rest:6.1f} ms: with the physics free the engine would still take "
             f"{1e3 * rest:.0f} ms"
         )
-    for how in () if args.no_rss else ("log", "nolog"):
-        proc = subprocess.run(
-            [sys.executable, str(Path(__file__).resolve()), "--rss-child", how],
-            capture_output=True,
-            text=True,
-            check=True,
-        )
-        peak, base, n_rows, dur, ending = proc.stdout.split()
-        what = "HDF5 log written" if how == "log" else "no log"
-        print(
-            f"\npeak RSS, {RSS_CASE['hours']}-h hold of the Glasswort at {RSS_CASE['speed']}, "
-            f"{RSS_CASE['sample']} samples, {what} ({n_rows} rows, {float(dur) / 3600:.1f} h, "
-            f"{ending.replace('_', ' ')}): {float(peak):.0f} MiB (after imports "
-            f"{float(base):.0f} MiB)  [{mark(float(peak) <= TARGET_RSS_MB)} ≤ {TARGET_RSS_MB:g} MB]"
-        )
+
+
+def rss_line(how: str) -> None:
+    """Measure the 24-hour mission's peak RSS in a child process (``how``: log / nolog)."""
+    proc = subprocess.run(
+        [sys.executable, str(Path(__file__).resolve()), "--rss-child", how],
+        capture_output=True,
+        text=True,
+        check=True,
+    )
+    peak, base, n_rows, dur, ending = proc.stdout.split()
+    what = "HDF5 log written" if how == "log" else "no log"
+    print(
+        f"\npeak RSS, {RSS_CASE['hours']}-h hold of the Glasswort at {RSS_CASE['speed']}, "
+        f"{RSS_CASE['sample']} samples, {what} ({n_rows} rows, {float(dur) / 3600:.1f} h, "
+        f"{ending.replace('_', ' ')}): {float(peak):.0f} MiB (after imports "
+        f"{float(base):.0f} MiB)  [{mark(float(peak) <= TARGET_RSS_MB)} ≤ {TARGET_RSS_MB:g} MB]"
+    )
 
 
 if __name__ == "__main__":

@@ -470,6 +470,8 @@ LIMIT_DWELL_S = 30.0
 """A saturation, fold-back or speed shortfall (and its end) is reported as an event once it has
 lasted this long on the logged samples [s], so a drive hovering at a limit does not flood the
 event list (project choice)."""
+_HUGE_PAGE_BYTES = 1 << 22  # numpy asks for huge pages for arrays this large (see _Columns)
+_FLUSH_ROWS = 8192  # rows after which the observer gets them, whatever the wall clock says
 
 
 class _Episode:
@@ -513,20 +515,29 @@ class _Row(Mapping):
 
 
 class _Columns:
-    """The logged samples kept for the run's result, as preallocated numpy columns that grow by
-    doubling (a row of dicts costs about 40× the memory: benchmarks/PROFILE.md §5.4)."""
+    """The logged samples kept for the run's result, as preallocated numpy columns (a row of
+    dicts costs about 40× the memory: benchmarks/PROFILE.md §5.4).
 
-    def __init__(self) -> None:
+    The columns are allocated once for ``capacity`` rows (the rows the run is expected to
+    log): pages of a fresh allocation that are never written cost no resident memory, so an
+    early end wastes nothing, while growing by copying holds the old and the new columns at
+    once. The reservation stays below numpy's huge-page threshold (4 MiB a column, above which
+    even the first row would make 2 MiB resident under transparent huge pages); a run logging
+    more rows grows the columns by doubling.
+    """
+
+    def __init__(self, capacity: int = 64) -> None:
         self.n = 0
+        self.capacity = max(1, int(capacity))
         self.cols: dict[str, np.ndarray] = {}
 
     def extend(self, block: dict[str, np.ndarray]) -> None:
         """Append a block of samples (channel -> column, as :func:`sample_block`)."""
         m = len(block["time_s"])
         if not self.cols:
-            self.cols = {
-                k: np.empty((max(64, m), *v.shape[1:]), dtype=v.dtype) for k, v in block.items()
-            }
+            widest = max(v[:1].nbytes for v in block.values()) or 1
+            cap = max(min(self.capacity, (_HUGE_PAGE_BYTES - 1) // widest), m)
+            self.cols = {k: np.empty((cap, *v.shape[1:]), dtype=v.dtype) for k, v in block.items()}
         n = self.n
         cap = len(self.cols["time_s"])
         if n + m > cap:
@@ -548,8 +559,27 @@ class _Columns:
     def last_time(self) -> float | None:
         return float(self.cols["time_s"][self.n - 1]) if self.n else None
 
-    def series(self) -> dict[str, np.ndarray]:
-        return {k: a[: self.n].copy() for k, a in self.cols.items()}
+    def rows(self, start: int) -> dict[str, np.ndarray]:
+        """Copies of the rows from ``start`` on (channel -> column)."""
+        return {k: a[start : self.n].copy() for k, a in self.cols.items()}
+
+    def take_series(self) -> dict[str, np.ndarray]:
+        """Hand the columns over, cut to the rows logged, and empty this store.
+
+        Each column is shrunk in place (``realloc``: the unused capacity is given back without
+        copying the samples); a column something else still refers to is copied instead.
+        """
+        cols, n = self.cols, self.n
+        self.cols, self.n = {}, 0
+        out: dict[str, np.ndarray] = {}
+        for k in list(cols):
+            a = cols.pop(k)
+            try:
+                a.resize((n, *a.shape[1:]), refcheck=True)
+            except ValueError:  # referenced elsewhere (or a view): copy, never touch it
+                a = a[:n].copy()
+            out[k] = a
+        return out
 
 
 # ------------------------------------------------------------------ observers and results
@@ -638,8 +668,12 @@ class MissionRunner:
         self.leg_names = {leg.name: i for i, leg in enumerate(self.legs)}
         self._events: list[dict] = []
         self._legs_out: list[dict] = []
-        self._rows = _Columns()
-        self._pending_rows: list[dict] = []
+        # the samples are kept for the whole run: reserve the rows it is expected to log (the
+        # sample grid up to the time limit, plus some for event instants; capped, see _Columns)
+        grid = self.time_limit / self.sample_s if self.sample_s > 0 else 0.0
+        expected = int(min(grid, 1 << 30)) + 1
+        self._rows = _Columns(expected + expected // 16 + 64)
+        self._flushed = 0  # rows already handed to the observer
         self._seen: set = set()  # once-per-run sample events already emitted
         self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
         self._episode_leg = 0
@@ -869,7 +903,6 @@ class MissionRunner:
             self._watch_limits(row)
             prev = row
         self._rows.extend(block)
-        self._pending_rows.append(block)
 
     def _watch_limits(self, row: dict) -> None:
         """Events when the drive starts or stops saturating, folding back, or falling short of a
@@ -1020,6 +1053,8 @@ class MissionRunner:
                     self.obs.progress(t_b, self.time_limit, wall - self._wall0)
                     self._flush_rows()
                     self._last_flush = wall
+                elif self._rows.n - self._flushed >= _FLUSH_ROWS:
+                    self._flush_rows()  # a bounded batch: each row is copied out once
         except SolverFailure:
             raise
         except IntegratorFailure as exc:
@@ -1175,6 +1210,8 @@ class MissionRunner:
                 if wall - max(last_flush, self._last_flush) > self.chunk_wall_s:
                     self._flush_rows()
                     last_flush = self._last_flush = wall
+                elif self._rows.n - self._flushed >= _FLUSH_ROWS:
+                    self._flush_rows()
                 if fired is None:
                     if t >= self.time_limit:
                         self._record(t, y)
@@ -1236,9 +1273,10 @@ class MissionRunner:
         return self._start_leg(m.leg_index + 1, t, y)
 
     def _flush_rows(self) -> None:
-        if self._pending_rows:
-            blocks, self._pending_rows = self._pending_rows, []
-            cols = {k: np.concatenate([b[k] for b in blocks]) for k in blocks[0]}
+        """Hand the rows logged since the last call to the observer (as new arrays)."""
+        if self._rows.n > self._flushed:
+            cols = self._rows.rows(self._flushed)
+            self._flushed = self._rows.n
             self.obs.samples(cols)
 
     def _finish(self, t: float, y: np.ndarray, reason: str, kind: str) -> None:
@@ -1306,7 +1344,7 @@ class MissionRunner:
         return self._result(_time.perf_counter() - wall0)
 
     def _result(self, wall: float) -> RunResult:
-        series = self._rows.series()
+        series = self._rows.take_series()
         y = self._final_y
         lay = self.model.lay
         totals = {name: float(y[lay.acc[name]]) for name in ACC_NAMES}

@@ -29,6 +29,16 @@ Root attributes
 No NaN or infinity is ever written: every float handed to the writer is checked on the way in
 and a bad value raises :class:`LogDataError` naming the channel and the first bad sample.
 
+Memory
+------
+The writer keeps each channel the way the file stores it: as soon as a chunk of a series
+dataset is full, its samples are shuffled and deflated once and only those bytes are kept (byte
+for byte what HDF5's own shuffle and gzip filters write for that chunk); the samples of the
+last, partial chunk stay raw. A snapshot creates each dataset with the same chunk shape and
+filters, writes the kept chunks unchanged with HDF5's direct chunk write and the partial chunk
+normally. So the writer holds about the compressed size of the run (plus one raw chunk per
+channel) and compresses no sample twice.
+
 Crash safety
 ------------
 While a run is going, the log lives beside the final path as ``<stem>.incomplete.h5``. Each
@@ -63,7 +73,8 @@ Symbolic links
     the link itself, never the file it points to. Temporary files are created with
     ``O_EXCL | O_NOFOLLOW`` after removing whatever was at their name.
 
-The cost of this design is that each flush rewrites the whole log, so flush at a modest rate.
+The cost of this design is that each flush rewrites the whole log file (copying the compressed
+chunks), so flush at a modest rate.
 :meth:`RunLogWriter.maybe_flush` does that by wall-clock time: call it after every batch of
 samples and it flushes at once when the first samples arrive, then whenever
 ``flush_interval_s`` (default 2 s, monotonic clock) has passed since the last flush, and never
@@ -94,6 +105,7 @@ import re
 import socket
 import time
 import weakref
+import zlib
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field, replace
 from datetime import UTC, datetime
@@ -456,6 +468,104 @@ def _check_columns(name: str, columns: Sequence[str]) -> None:
         raise ValueError(f"channel {name!r}: column names repeat: {list(columns)}")
 
 
+def _chunk_shape(spec: ChannelSpec) -> tuple[int, ...]:
+    """Chunk shape of a series dataset: about ``_CHUNK_BYTES`` of samples, all columns."""
+    if spec.columns is None:
+        return (_CHUNK_BYTES // spec.dtype.itemsize,)
+    ncols = len(spec.columns)
+    return (max(1, _CHUNK_BYTES // (spec.dtype.itemsize * ncols)), ncols)
+
+
+def _shuffle_deflate(block: np.ndarray, level: int) -> bytes:
+    """One whole chunk as HDF5 stores it with the shuffle and deflate (gzip) filters.
+
+    The shuffle filter regroups the bytes of the chunk's elements (row-major, all columns) by
+    byte position: every element's byte 0, then every byte 1...; deflate is zlib's
+    ``compress2`` at ``level`` (zlib format, the same call HDF5 makes).
+    """
+    size = block.dtype.itemsize
+    shuffled = np.ascontiguousarray(block).reshape(-1).view(np.uint8).reshape(-1, size).T
+    return zlib.compress(shuffled.tobytes(), level)
+
+
+def _inflate_unshuffle(data: bytes, dtype: np.dtype, shape: tuple[int, ...]) -> np.ndarray:
+    """Inverse of :func:`_shuffle_deflate`: the chunk's samples as an array of ``shape``."""
+    raw = np.frombuffer(zlib.decompress(data), dtype=np.uint8).reshape(dtype.itemsize, -1)
+    return np.ascontiguousarray(raw.T).view(dtype).reshape(shape)
+
+
+class _ChannelStore:
+    """The samples of one series channel so far, kept the way the log file stores them.
+
+    Every whole chunk (shape :func:`_chunk_shape`) is shuffled and deflated once, as soon as it
+    is full, and kept as the bytes HDF5 would write for it; only the samples of the last,
+    partial chunk are kept raw (one chunk-sized buffer). A snapshot writes the kept bytes with
+    HDF5's direct chunk write, so the memory held is about the compressed size of the run and
+    no sample is compressed twice.
+    """
+
+    __slots__ = ("chunks", "dtype", "n_tail", "rows", "shape", "tail")
+
+    def __init__(self, spec: ChannelSpec) -> None:
+        self.shape = _chunk_shape(spec)
+        self.rows = self.shape[0]
+        self.dtype = spec.dtype
+        self.chunks: list[bytes] = []
+        self.tail = np.empty(self.shape, dtype=spec.dtype)
+        self.n_tail = 0
+
+    @property
+    def n(self) -> int:
+        """Number of samples held."""
+        return len(self.chunks) * self.rows + self.n_tail
+
+    def extend(self, arr: np.ndarray) -> None:
+        """Append samples (already checked and of the channel's dtype and column count)."""
+        done, m = 0, arr.shape[0]
+        while done < m:
+            take = min(self.rows - self.n_tail, m - done)
+            self.tail[self.n_tail : self.n_tail + take] = arr[done : done + take]
+            self.n_tail += take
+            done += take
+            if self.n_tail == self.rows:
+                self.chunks.append(_shuffle_deflate(self.tail, _GZIP_LEVEL))
+                self.n_tail = 0
+
+    def partial(self, n: int) -> np.ndarray:
+        """The samples after the last whole chunk among the first ``n`` (a view or a copy)."""
+        k, rem = divmod(n, self.rows)
+        if k < len(self.chunks):  # that chunk was completed (and compressed) since
+            return _inflate_unshuffle(self.chunks[k], self.dtype, self.shape)[:rem]
+        return self.tail[:rem]
+
+    def values(self, n: int) -> np.ndarray:
+        """The first ``n`` samples as one new array (decompressing the whole chunks)."""
+        k = n // self.rows
+        parts = [_inflate_unshuffle(c, self.dtype, self.shape) for c in self.chunks[:k]]
+        return np.concatenate([*parts, self.partial(n)])
+
+    def write(self, group: h5py.Group, name: str, n: int) -> h5py.Dataset:
+        """Create dataset ``name`` in ``group`` holding the first ``n`` samples."""
+        ds = group.create_dataset(
+            name,
+            shape=(n, *self.shape[1:]),
+            dtype=self.dtype,
+            chunks=self.shape,
+            maxshape=(None, *self.shape[1:]),
+            compression="gzip",
+            compression_opts=_GZIP_LEVEL,
+            shuffle=True,
+            track_times=False,
+        )
+        k = n // self.rows
+        zeros = (0,) * (len(self.shape) - 1)
+        for i, data in enumerate(self.chunks[:k]):
+            ds.id.write_direct_chunk((i * self.rows, *zeros), data)
+        if n > k * self.rows:
+            ds[k * self.rows : n] = self.partial(n)
+        return ds
+
+
 # --------------------------------------------------------------------------------------------
 # Value checks
 # --------------------------------------------------------------------------------------------
@@ -495,7 +605,7 @@ def _first_bad(bad: np.ndarray) -> tuple[int, int | None]:
 
 def _coerce_channel(name: str, spec: ChannelSpec, value: object, offset: int) -> np.ndarray:
     """Return a checked (n, [ncols]) array of the channel's dtype (a view of ``value`` when no
-    conversion is needed: the caller copies it into the writer's buffer)."""
+    conversion is needed: the caller copies it into the channel's store)."""
     arr = np.asarray(value)
     want_ndim = 1 if spec.columns is None else 2
     if arr.ndim == want_ndim - 1:  # a single sample
@@ -785,6 +895,7 @@ class _Snapshot:
     n_legs: int
     summary: Mapping[str, str | int | float | bool]
     summary_units: Mapping[str, str]
+    t_end_s: float | None  # time of the last sample [s] (None without samples)
 
 
 class RunLogWriter:
@@ -927,16 +1038,8 @@ class RunLogWriter:
         root["created_utc"] = _check_str("created_utc", created_utc)
         self._root = root
 
-        # --- buffers
-        # one growing array per channel (capacity doubles; rows past self._n are unused and,
-        # being untouched pages of a fresh allocation, cost no resident memory)
-        self._bufs: dict[str, np.ndarray] = {
-            name: np.empty(
-                (0,) if specs[name].columns is None else (0, len(specs[name].columns)),
-                dtype=specs[name].dtype,
-            )
-            for name in self._order
-        }
+        # --- samples: whole chunks compressed as they fill, the last partial chunk raw
+        self._store = {name: _ChannelStore(specs[name]) for name in self._order}
         self._n = 0
         self._last_time = -math.inf
         self._events: list[tuple[float, str, int, str]] = []
@@ -1080,12 +1183,7 @@ class RunLogWriter:
             self._last_time = float(t[-1])
         end = self._n + n
         for name, arr in arrays.items():
-            buf = self._bufs[name]
-            if end > buf.shape[0]:
-                grown = np.empty((max(end, 2 * buf.shape[0], 1024), *buf.shape[1:]), buf.dtype)
-                grown[: self._n] = buf[: self._n]
-                self._bufs[name] = buf = grown
-            buf[self._n : end] = arr
+            self._store[name].extend(arr)
         self._n = end
         self._dirty = self._dirty or n > 0
 
@@ -1157,12 +1255,18 @@ class RunLogWriter:
 
     # ---------------------------------------------------------------- writing
     def _series(self, name: str) -> np.ndarray:
-        """The samples of one channel so far: a view of its buffer (no copy)."""
-        return self._bufs[name][: self._n]
+        """The samples of one channel so far, as a new array (decompressed; for tests and
+        inspection: the writer itself never needs them whole)."""
+        return self._store[name].values(self._n)
 
     def _now(self) -> _Snapshot:
         return _Snapshot(
-            self._n, len(self._events), len(self._legs), self._summary, self._summary_units
+            self._n,
+            len(self._events),
+            len(self._legs),
+            self._summary,
+            self._summary_units,
+            self._last_time if self._n else None,
         )
 
     def _image(self, label: Path, *, complete: bool, ending_reason: str, upto: _Snapshot) -> bytes:
@@ -1177,25 +1281,7 @@ class RunLogWriter:
             series = _create_group(f, "series")
             for name in self._order:
                 spec = self._specs[name]
-                data = self._series(name)[: upto.n]
-                if spec.columns is None:
-                    chunks: tuple[int, ...] = (_CHUNK_BYTES // spec.dtype.itemsize,)
-                    maxshape: tuple[int | None, ...] = (None,)
-                else:
-                    ncols = len(spec.columns)
-                    rows = max(1, _CHUNK_BYTES // (spec.dtype.itemsize * ncols))
-                    chunks, maxshape = (rows, ncols), (None, ncols)
-                ds = series.create_dataset(
-                    name,
-                    data=data,
-                    dtype=spec.dtype,
-                    chunks=chunks,
-                    maxshape=maxshape,
-                    compression="gzip",
-                    compression_opts=_GZIP_LEVEL,
-                    shuffle=True,
-                    track_times=False,
-                )
+                ds = self._store[name].write(series, name, upto.n)
                 if spec.columns is not None:
                     ds.attrs.create("columns", np.array(spec.columns, dtype=_STR), dtype=_STR)
                 _set_attrs(ds, {"description": spec.description, "units": spec.units})
@@ -1252,7 +1338,7 @@ class RunLogWriter:
         good = self._good
         if good is not None:
             kept = self._incomplete
-            t_end = float(self._series("time_s")[good.n - 1]) if good.n else None
+            t_end = good.t_end_s
             kept_what = f" ({good.n} samples" + (f", up to t = {t_end:g} s)" if good.n else ")")
             code, text = _error_parts(exc)
             name = errno.errorcode.get(code, "") if isinstance(code, int) else ""
