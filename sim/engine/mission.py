@@ -51,6 +51,7 @@ from sim.engine.plant import Plant, anode_spent_charge_c
 from sim.engine.spec import LegSpec, MissionSpec, TriggerSpec
 from sim.engine.steady import SteadyError, steady_at_speed
 from sim.engine.summary import SUMMARY_UNITS, summarise
+from sim.physics import battery as bat
 from sim.physics.constants import KNOT_M_S
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
 from sim.physics.roots import brent_root
@@ -684,7 +685,11 @@ class MissionRunner:
         self.atol = np.full(lay.size, 1e-6)
         self.atol[I_XG] = self.atol[I_XW] = 1e-4
         self.atol[I_SOC] = 1e-10
-        self.atol[I_RC1] = self.atol[I_RC2] = 1e-7
+        # an RC pair's voltage adds to the pack's terminal voltage, so an error δ in it moves the
+        # current drawn for a power by δ/V: hold it to the relative tolerance of the pack
+        # voltage (OCV at half charge). A fixed 1e-7 V was about four decades tighter than rtol
+        # and set the step of most steps of a long hold (benchmarks/PROFILE.md §7).
+        self.atol[I_RC1] = self.atol[I_RC2] = self.rtol * float(bat.ocv_v(plant.pack, 0.5))
         for k in range(lay.i_acc, lay.size):
             self.atol[k] = 1e-3
         self.atol[lay.acc["h2_mol"]] = self.atol[lay.acc["cl2_mol"]] = 1e-9
