@@ -1262,7 +1262,8 @@ class SolverSpec(_Strict):
     """[solver]: settings of the ODE integrator (brinebolt's TR-BDF2 or a solve_ivp method)."""
 
     rtol: number(ge=1e-12, le=1e-2, optional=True) = None
-    """Relative tolerance of the integrator; the absolute tolerances are fixed per state variable.
+    """Relative tolerance of the integrator; the absolute tolerances are fixed per state variable,
+    except the RC pairs' voltages, held to rtol × the pack's open-circuit voltage at half charge.
 
     Default: 1e-5 with TR-BDF2 (verified within 0.05 % of a Radau solution at 1e-10), 1e-7 with
     the solve_ivp methods."""
