@@ -690,6 +690,10 @@ class MissionRunner:
         # voltage (OCV at half charge). A fixed 1e-7 V was about four decades tighter than rtol
         # and set the step of most steps of a long hold (benchmarks/PROFILE.md §7).
         self.atol[I_RC1] = self.atol[I_RC2] = self.rtol * float(bat.ocv_v(plant.pack, 0.5))
+        # the speed hold's integral term adds to the command voltage: hold it to the relative
+        # tolerance of the drive's voltage range (a fixed 1e-6 V was far tighter where the
+        # feed-forward carries the command and the integral stays near 0)
+        self.atol[lay.i_pi] = self.rtol * plant.drive_max_voltage_v
         for k in range(lay.i_acc, lay.size):
             self.atol[k] = 1e-3
         self.atol[lay.acc["h2_mol"]] = self.atol[lay.acc["cl2_mol"]] = 1e-9

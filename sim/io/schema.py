@@ -1263,7 +1263,8 @@ class SolverSpec(_Strict):
 
     rtol: number(ge=1e-12, le=1e-2, optional=True) = None
     """Relative tolerance of the integrator; the absolute tolerances are fixed per state variable,
-    except the RC pairs' voltages, held to rtol × the pack's open-circuit voltage at half charge.
+    except the RC pairs' voltages, held to rtol × the pack's open-circuit voltage at half charge,
+    and the speed hold's integral term, held to rtol × the drive's maximum voltage.
 
     Default: 1e-5 with TR-BDF2 (verified within 0.05 % of a Radau solution at 1e-10), 1e-7 with
     the solve_ivp methods."""
