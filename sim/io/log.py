@@ -32,12 +32,13 @@ and a bad value raises :class:`LogDataError` naming the channel and the first ba
 Memory
 ------
 The writer keeps each channel the way the file stores it: as soon as a chunk of a series
-dataset is full, its samples are shuffled and deflated once and only those bytes are kept (byte
-for byte what HDF5's own shuffle and gzip filters write for that chunk); the samples of the
-last, partial chunk stay raw. A snapshot creates each dataset with the same chunk shape and
-filters, writes the kept chunks unchanged with HDF5's direct chunk write and the partial chunk
-normally. So the writer holds about the compressed size of the run (plus one raw chunk per
-channel) and compresses no sample twice.
+dataset is full, its samples are shuffled and deflated once and only those bytes are kept (what
+HDF5's own shuffle and gzip filters write for that chunk: the same filter mask and shuffled
+payload, in a deflate stream that any zlib inflates; with the zlib HDF5 itself uses, the very
+same bytes); the samples of the last, partial chunk stay raw. A snapshot creates each dataset
+with the same chunk shape and filters, writes the kept chunks unchanged with HDF5's direct
+chunk write and the partial chunk normally. So the writer holds about the compressed size of
+the run (plus one raw chunk per channel) and compresses no sample twice.
 
 Crash safety
 ------------
