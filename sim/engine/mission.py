@@ -13,6 +13,7 @@ Nothing here writes files or prints: observers receive samples, events and leg s
 from __future__ import annotations
 
 import math
+import operator
 import time as _time
 from collections.abc import Mapping
 from dataclasses import dataclass, field
@@ -284,6 +285,9 @@ _SCALAR_FIELDS = (
     "cl2",
 )
 _LIST_FIELDS = ("thrust_n", "current_a", "voltage_v", "field_t", "duct_rise_k", "duct_joule_rise_k")
+# the snapshot's fields as one tuple each (one C-level call per sample instead of a getattr loop)
+_scalar_fields_of = operator.attrgetter(*_SCALAR_FIELDS)
+_list_fields_of = operator.attrgetter(*_LIST_FIELDS)
 INT_CHANNELS = ("leg_index", "charge_folded", "drive_saturated", "power_folded")
 """Sample channels that hold whole numbers (int64 columns); every other channel is float64."""
 
@@ -306,9 +310,8 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     for j in range(n):
         y = ys[:, j]
         s = model.evaluate(float(ts[j]), y)
-        sc[j] = [getattr(s, f) for f in _SCALAR_FIELDS]
-        for q, f in enumerate(_LIST_FIELDS):
-            li[q, j] = getattr(s, f)
+        sc[j] = _scalar_fields_of(s)
+        li[: len(_LIST_FIELDS), j] = _list_fields_of(s)
         speed = float(y[I_V])
         li[len(_LIST_FIELDS), j], li[len(_LIST_FIELDS) + 1, j] = model.end_current_and_gas_load(
             s, speed
@@ -497,16 +500,28 @@ class _Episode:
 
 
 class _Row(Mapping):
-    """One sample of a column block, read as a mapping (plain values; lists per design)."""
+    """One sample of a column block, read as a mapping (plain values; lists per design, to be
+    read, not changed).
 
-    __slots__ = ("cols", "j")
+    The rows of one short block may share ``lists``: each column read is then converted to a
+    list once for the whole block (numpy's per-item ``.item()`` costs more than the read).
+    Without it (a row of the long run columns), each read converts one item."""
 
-    def __init__(self, cols: dict[str, np.ndarray], j: int) -> None:
-        self.cols, self.j = cols, j
+    __slots__ = ("cols", "j", "lists")
+
+    def __init__(
+        self, cols: dict[str, np.ndarray], j: int, lists: dict[str, list] | None = None
+    ) -> None:
+        self.cols, self.j, self.lists = cols, j, lists
 
     def __getitem__(self, key: str):
-        v = self.cols[key][self.j]
-        return v.tolist() if isinstance(v, np.ndarray) else v.item()
+        if self.lists is None:
+            v = self.cols[key][self.j]
+            return v.tolist() if isinstance(v, np.ndarray) else v.item()
+        col = self.lists.get(key)
+        if col is None:
+            col = self.lists[key] = self.cols[key].tolist()
+        return col[self.j]
 
     def __iter__(self):
         return iter(self.cols)
@@ -677,6 +692,7 @@ class MissionRunner:
         self._flushed = 0  # rows already handed to the observer
         self._seen: set = set()  # once-per-run sample events already emitted
         self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
+        self._finite_keys: tuple[str, ...] | None = None
         self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
         self._h_hint: float | None = None  # first step of the next stepper segment [s]
@@ -895,18 +911,27 @@ class MissionRunner:
             return
         self._last_ty = (float(ts[0]), ys[:, 0])
         block = sample_block(self.model, ts, ys, self.m.leg_index)
-        for k, v in block.items():
-            if v.dtype.kind == "f" and k not in MAY_BE_NAN and not np.isfinite(v).all():
-                bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
-                raise SolverFailure(
-                    f"non-finite value of {k} ({v[bad].tolist()})",
-                    float(ts[bad]),
-                    self.legs[self.m.leg_index].name,
-                    self._state_dict(ys[:, bad]),
-                )
+        if self._finite_keys is None:  # the channels that must be finite (the same each block)
+            self._finite_keys = tuple(
+                k for k, v in block.items() if v.dtype.kind == "f" and k not in MAY_BE_NAN
+            )
+        # one test over all of them (a test per channel costs more than the values); on a
+        # failure, the channel loop finds the first bad value
+        if not np.isfinite(np.concatenate([block[k] for k in self._finite_keys], axis=None)).all():
+            for k in self._finite_keys:
+                v = block[k]
+                if not np.isfinite(v).all():
+                    bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
+                    raise SolverFailure(
+                        f"non-finite value of {k} ({v[bad].tolist()})",
+                        float(ts[bad]),
+                        self.legs[self.m.leg_index].name,
+                        self._state_dict(ys[:, bad]),
+                    )
         prev = self._rows.last
+        lists: dict[str, list] = {}  # the block's columns as lists, shared by its rows
         for j in range(len(ts)):
-            row = _Row(block, j)
+            row = _Row(block, j, lists)
             for kind, message in sample_events(self.plant, prev, row, self._seen):
                 self._emit(float(ts[j]), kind, self.m.leg_index, message)
             self._watch_limits(row)
