@@ -34,7 +34,7 @@ from sim.engine.conditions import (
     SocBelow,
 )
 from sim.engine.integrator import METHOD as STEPPER_METHOD
-from sim.engine.integrator import TRBDF2, IntegratorFailure
+from sim.engine.integrator import TRBDF2, IntegratorFailure, all_finite
 from sim.engine.model import (
     ACC_NAMES,
     I_RC1,
@@ -1011,7 +1011,7 @@ class MissionRunner:
         NaN/inf."""
         self._last_ty = (t, y)
         dy = self.model.rhs(t, y)
-        if not np.isfinite(dy).all():
+        if not all_finite(dy):
             bad = ", ".join(self._state_names()[k] for k in np.flatnonzero(~np.isfinite(dy)))
             raise SolverFailure(
                 f"non-finite derivative of {bad}",

@@ -105,16 +105,28 @@ def duct_heat(
     Bejan (2013), Convection Heat Transfer, ch. 3 (steady-flow energy balance); Bard & Faulkner
     (2001), Electrochemical Methods, ch. 3 (overpotential).
     """
-    for name, v in (
-        ("joule_w", joule_w),
-        ("friction_w", friction_w),
-        ("overpotential_v", overpotential_v),
-    ):
-        if not v >= 0.0:
-            raise ModelRangeError(name, v, "≥ 0", _MODEL)
-    for name, v in (("flow_area_m2", flow_area_m2), ("rho_kg_m3", rho_kg_m3), ("cp", cp_j_kg_k)):
-        if not v > 0.0:
-            raise ModelRangeError(name, v, "> 0", _MODEL)
+    if not (
+        joule_w >= 0.0
+        and friction_w >= 0.0
+        and overpotential_v >= 0.0
+        and flow_area_m2 > 0.0
+        and rho_kg_m3 > 0.0
+        and cp_j_kg_k > 0.0
+    ):  # one test on the way of every right-hand side; the loops below name the bad input
+        for name, v in (
+            ("joule_w", joule_w),
+            ("friction_w", friction_w),
+            ("overpotential_v", overpotential_v),
+        ):
+            if not v >= 0.0:
+                raise ModelRangeError(name, v, "≥ 0", _MODEL)
+        for name, v in (
+            ("flow_area_m2", flow_area_m2),
+            ("rho_kg_m3", rho_kg_m3),
+            ("cp", cp_j_kg_k),
+        ):
+            if not v > 0.0:
+                raise ModelRangeError(name, v, "> 0", _MODEL)
     electrode = overpotential_v * abs(current_a)
     total = joule_w + friction_w + electrode
     mcp = rho_kg_m3 * flow_area_m2 * max(abs(duct_velocity_m_s), U_FLOOR_M_S) * cp_j_kg_k
