@@ -300,28 +300,32 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     p, lay = model.plant, model.lay
     n, nthr = len(ts), lay.n_thr
     ys = np.asarray(ys, dtype=float).reshape(lay.size, n)
-    sc = np.empty((n, len(_SCALAR_FIELDS)))
-    li = np.empty((len(_LIST_FIELDS) + 4, n, nthr))
-    flags = np.empty((n, 3), dtype=np.int64)
-    wat = np.empty((n, 4))
-    chg = np.empty(n)
-    short = np.empty(n)
     c = model.control
-    for j in range(n):
+    # the values are gathered in lists, row by row, and made arrays once per block (numpy's
+    # item assignment costs more than the list; the values are the same floats)
+    sc, per_design, flags, wat, chg, short = [], [], [], [], [], []
+    for j, t in enumerate(np.asarray(ts, dtype=float).tolist()):
         y = ys[:, j]
-        s = model.evaluate(float(ts[j]), y)
-        sc[j] = _scalar_fields_of(s)
-        li[: len(_LIST_FIELDS), j] = _list_fields_of(s)
-        speed = float(y[I_V])
-        li[len(_LIST_FIELDS), j], li[len(_LIST_FIELDS) + 1, j] = model.end_current_and_gas_load(
-            s, speed
-        )
-        v_rc = float(y[I_RC1]) + float(y[I_RC2])
-        chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
-        flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
-        short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
+        s = model.evaluate(t, y)
+        x = y.tolist()
+        speed = x[I_V]
+        sc.append(_scalar_fields_of(s))
+        per_design.append((*_list_fields_of(s), *model.end_current_and_gas_load(s, speed)))
+        chg.append(model.pack_charge_limit_w(x[I_SOC], x[I_RC1] + x[I_RC2], x[I_TB]))
+        flags.append((int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded)))
+        short.append(_speed_short(model, speed, s) if c.mode == "speed" else 0.0)
         w = s.water
-        wat[j] = (w.sp, w.t_c, w.sigma_s_m, s.current_m_s)
+        wat.append((w.sp, w.t_c, w.sigma_s_m, s.current_m_s))
+    sc = np.array(sc, dtype=float).reshape(n, len(_SCALAR_FIELDS))
+    # per design: the snapshot's lists, the end current, the gas load, the outlet void fraction
+    li = np.empty((len(_LIST_FIELDS) + 3, n, nthr))
+    li[: len(_LIST_FIELDS) + 2] = (
+        np.array(per_design, dtype=float).reshape(n, len(_LIST_FIELDS) + 2, nthr).transpose(1, 0, 2)
+    )
+    flags = np.array(flags, dtype=np.int64).reshape(n, 3)
+    wat = np.array(wat, dtype=float).reshape(n, 4)
+    chg = np.array(chg, dtype=float)
+    short = np.array(short, dtype=float)
     # the void fractions of the whole block at once, from the gas load a (row len(_LIST_FIELDS)
     # + 1 holds a until here)
     load = li[len(_LIST_FIELDS) + 1]

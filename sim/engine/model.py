@@ -181,13 +181,14 @@ class VesselModel:
         self._water_cache: dict[tuple[float, float], tuple] = {}
         self._water_key: tuple[float, float] | None = None
         self._t_eval = 0.0  # time of the evaluation under way (the water may depend on it)
-        # per-design constants of the right-hand side, gathered once (attribute look-ups on
-        # every call cost as much as the arithmetic): the magnets' state indices, thermal
+        # per-design constants, gathered once (attribute look-ups on every call cost as much
+        # as the arithmetic): units per design; the magnets' state indices, thermal
         # conductances [W/K] and heat capacities [J/K]; the designs with a tracked anode
         lay, units = self.lay, plant.thrusters
         self._i_acc = lay.i_acc
         self._water_varies = plant.water_varies
         self._mass_kg = plant.total_mass_kg
+        self._units = tuple(u.units for u in units)
         self._magnet_i = tuple(range(lay.i_mag, lay.i_mag + lay.n_thr))
         self._magnet_g = tuple(u.magnet_conductance_w_k for u in units)
         self._magnet_c = tuple(u.magnet_heat_capacity_j_k for u in units)
@@ -412,10 +413,8 @@ class VesselModel:
         return ops, sat
 
     def _power_of(self, ops) -> float:
-        return sum(
-            float(op.electrical_power_w) * u.units
-            for op, u in zip(ops, self.plant.thrusters, strict=True)
-        )
+        """Electrical power of all units of all designs [W] (ops: one unit of each design)."""
+        return sum(float(op.electrical_power_w) * m for op, m in zip(ops, self._units, strict=True))
 
     def pack_power_limit_w(self, soc: float, v_rc: float, temp_c: float) -> float:
         """Greatest pack power the drive may draw [W]: the cells stay at or above their minimum
@@ -524,13 +523,14 @@ class VesselModel:
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
         w, current_m_s, _, _ = self.local_water(self._t_eval, y)
-        speed = float(y[I_V])
-        fields = [self.field_t(k, float(y[lay.i_mag + k])) for k in range(lay.n_thr)]
+        x = y.tolist()  # the state as Python floats: one conversion, not one per item read
+        speed = x[I_V]
+        fields = [self.field_t(k, x[lay.i_mag + k]) for k in range(lay.n_thr)]
         vmax = p.drive_max_voltage_v
         saturated = False
         mode, value = c.mode, c.target
         if mode == "speed":
-            cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + float(y[lay.i_pi])
+            cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + x[lay.i_pi]
             if cmd > vmax or cmd < -vmax:
                 saturated = True
                 cmd = max(-vmax, min(vmax, cmd))
@@ -542,8 +542,8 @@ class VesselModel:
 
         # the drive folds back when the pack cannot supply the demand within its limits
         eta = p.drive_efficiency
-        soc, temp = float(y[I_SOC]), float(y[I_TB])
-        v_rc = float(y[I_RC1]) + float(y[I_RC2])
+        soc, temp = x[I_SOC], x[I_TB]
+        v_rc = x[I_RC1] + x[I_RC2]
         hotel = c.hotel_w + p.cryocooler_w
         thr = self._power_of(ops)
         folded = False
@@ -641,7 +641,7 @@ class VesselModel:
         s.pack_voltage_v = float(op.terminal_v)
         s.cell_voltage_v = float(op.cell_v)
         s.ocv_v = float(bat.ocv_v(pk, soc))
-        rc = (float(y[I_RC1]), float(y[I_RC2]))[: pk.n_rc]
+        rc = (x[I_RC1], x[I_RC2])[: pk.n_rc]
         # the cells' heat only: the busbar loss I²·R_extra warms the busbars, not the cells
         s.pack_heat_w = float(
             bat.heat_generation_w(pk, s.pack_current_a, soc, temp, rc, include_busbars=False)
@@ -659,7 +659,8 @@ class VesselModel:
         self.n_rhs += 1
         s = self.evaluate(t, y)
         p, c = self.plant, self.control
-        speed = float(y[I_V])
+        x = y.tolist()  # the state as Python floats (as in _evaluate)
+        speed = x[I_V]
         t_water = s.water.t_c
         # the derivatives in state order, gathered in a list and made an array once (cheaper
         # than filling a zeroed array item by item; the values are the same floats)
@@ -671,14 +672,14 @@ class VesselModel:
             s.drc1,
             s.drc2,
             bat.battery_temperature_rate_k_s(
-                p.pack, s.pack_heat_w, float(y[I_TB]), t_water, p.battery_ua_w_k
+                p.pack, s.pack_heat_w, x[I_TB], t_water, p.battery_ua_w_k
             ),
         ]
         for i, g_w_k, c_j_k, rise_k in zip(
             self._magnet_i, self._magnet_g, self._magnet_c, s.duct_rise_k, strict=True
         ):
             duct_mean_c = t_water + 0.5 * rise_k
-            dy.append(g_w_k * (duct_mean_c - float(y[i])) / c_j_k)
+            dy.append(g_w_k * (duct_mean_c - x[i]) / c_j_k)
         pi_rate = 0.0
         if c.mode == "speed":
             err = c.target - speed
