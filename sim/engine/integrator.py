@@ -214,6 +214,7 @@ class TRBDF2:
         y = base.copy()
         y[dyn] = guess[dyn]
         sc = scale[dyn]
+        base_dyn = base[dyn]  # the same in every iteration
         hd = h * D
         prev = None
         rate = self.rate
@@ -222,7 +223,7 @@ class TRBDF2:
             self.n_fun += 1
             if not all_finite(fy):
                 return None
-            g = y[dyn] - base[dyn] - hd * fy[dyn]
+            g = y[dyn] - base_dyn - hd * fy[dyn]
             dz = minv @ g
             norm = _rms(dz / sc)
             if prev is not None:

@@ -37,7 +37,7 @@ import numpy as np
 
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
-from sim.physics.duct_heat import duct_heat
+from sim.physics.duct_heat import duct_heat_terms
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
 from sim.physics.open_field import hull_friction_change_n, open_field_point, prepare_open_field
 from sim.physics.roots import brent_root as brentq
@@ -594,7 +594,7 @@ class VesselModel:
                 eff += (op.thrust_n - math.copysign(d_drag, op.thrust_n)) * m
                 gross_power += op.thrust_n * m * speed
                 continue
-            heat = duct_heat(
+            electrode_heat_w, _, rise_k, _ = duct_heat_terms(
                 max(op.joule_loss_w, 0.0),
                 max(op.friction_loss_w, 0.0),
                 u.overpotential_v,
@@ -604,9 +604,9 @@ class VesselModel:
                 w.rho_kg_m3,
                 w.cp_j_kg_k,
             )
-            rise.append(heat.rise_k)
+            rise.append(rise_k)
             jrise.append(op.outlet_temperature_rise_k)
-            el_heat += heat.electrode_w * m
+            el_heat += electrode_heat_w * m
             joule += op.joule_loss_w * m
             electrode += op.electrode_loss_w * m
             friction += op.friction_loss_w * m
