@@ -96,7 +96,12 @@ class StepDense:
         return self
 
     def __call__(self, t):
-        s = (np.asarray(t, dtype=float) - self.t0) / self.h
+        if isinstance(t, float | int):
+            # a single time: the basis in Python floats (numpy's 0-d arithmetic costs about a
+            # microsecond an operation; the operations, and so the values, are the same)
+            s = (float(t) - self.t0) / self.h
+        else:
+            s = (np.asarray(t, dtype=float) - self.t0) / self.h
         s2 = s * s
         s3 = s2 * s
         h00 = 2.0 * s3 - 3.0 * s2 + 1.0
