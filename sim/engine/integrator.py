@@ -37,7 +37,7 @@ import math
 
 import numpy as np
 
-__all__ = ["METHOD", "TRBDF2", "IntegratorFailure", "StepDense"]
+__all__ = ["METHOD", "TRBDF2", "IntegratorFailure", "StepDense", "all_finite"]
 
 METHOD = "TR-BDF2"
 """The name of this method in a scenario's ``[solver] method``."""
@@ -63,6 +63,19 @@ NEWTON_TOL = 0.03
 EPS = np.finfo(float).eps
 
 
+def _rms(x: np.ndarray) -> float:
+    """Root mean square of a 1-D array, √(Σx²/n), with the same floating-point operations as
+    ``math.sqrt(np.mean(x**2))`` (numpy's pairwise sum, then one division by n) but without
+    np.mean's Python-level dispatch, which costs more than the sum on a vector this short."""
+    return math.sqrt(float(np.add.reduce(x * x)) / x.size)
+
+
+def all_finite(v: np.ndarray) -> bool:
+    """True when every item of a short 1-D array is finite: ``np.isfinite(v).all()`` in half
+    its time at the length of a vessel's state vector."""
+    return all(map(math.isfinite, v.tolist()))
+
+
 class IntegratorFailure(RuntimeError):
     """The step size fell below what the time resolution allows."""
 
@@ -83,7 +96,12 @@ class StepDense:
         return self
 
     def __call__(self, t):
-        s = (np.asarray(t, dtype=float) - self.t0) / self.h
+        if isinstance(t, float | int):
+            # a single time: the basis in Python floats (numpy's 0-d arithmetic costs about a
+            # microsecond an operation; the operations, and so the values, are the same)
+            s = (float(t) - self.t0) / self.h
+        else:
+            s = (np.asarray(t, dtype=float) - self.t0) / self.h
         s2 = s * s
         s3 = s2 * s
         h00 = 2.0 * s3 - 3.0 * s2 + 1.0
@@ -201,17 +219,18 @@ class TRBDF2:
         y = base.copy()
         y[dyn] = guess[dyn]
         sc = scale[dyn]
+        base_dyn = base[dyn]  # the same in every iteration
         hd = h * D
         prev = None
         rate = self.rate
         for _ in range(NEWTON_MAX):
             fy = self.fun(t, y)
             self.n_fun += 1
-            if not np.all(np.isfinite(fy)):
+            if not all_finite(fy):
                 return None
-            g = y[dyn] - base[dyn] - hd * fy[dyn]
+            g = y[dyn] - base_dyn - hd * fy[dyn]
             dz = minv @ g
-            norm = math.sqrt(float(np.mean((dz / sc) ** 2)))
+            norm = _rms(dz / sc)
             if prev is not None:
                 rate = norm / prev if prev > 0.0 else 0.0
                 if rate >= 1.0:
@@ -266,7 +285,7 @@ class TRBDF2:
             err = h * (_E1 * f + _E2 * f2 + _E3 * f3)
             err[dyn] = self._iteration_matrix(h) @ err[dyn]  # Shampine's filter
             sc = self.atol + self.rtol * np.maximum(np.abs(y), np.abs(y_new))
-            e = math.sqrt(float(np.mean((err / sc) ** 2)))
+            e = _rms(err / sc)
             if not math.isfinite(e):
                 self.h = 0.25 * h
                 continue

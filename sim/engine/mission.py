@@ -13,6 +13,7 @@ Nothing here writes files or prints: observers receive samples, events and leg s
 from __future__ import annotations
 
 import math
+import operator
 import time as _time
 from collections.abc import Mapping
 from dataclasses import dataclass, field
@@ -33,7 +34,7 @@ from sim.engine.conditions import (
     SocBelow,
 )
 from sim.engine.integrator import METHOD as STEPPER_METHOD
-from sim.engine.integrator import TRBDF2, IntegratorFailure
+from sim.engine.integrator import TRBDF2, IntegratorFailure, all_finite
 from sim.engine.model import (
     ACC_NAMES,
     I_RC1,
@@ -284,6 +285,9 @@ _SCALAR_FIELDS = (
     "cl2",
 )
 _LIST_FIELDS = ("thrust_n", "current_a", "voltage_v", "field_t", "duct_rise_k", "duct_joule_rise_k")
+# the snapshot's fields as one tuple each (one C-level call per sample instead of a getattr loop)
+_scalar_fields_of = operator.attrgetter(*_SCALAR_FIELDS)
+_list_fields_of = operator.attrgetter(*_LIST_FIELDS)
 INT_CHANNELS = ("leg_index", "charge_folded", "drive_saturated", "power_folded")
 """Sample channels that hold whole numbers (int64 columns); every other channel is float64."""
 
@@ -296,29 +300,32 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     p, lay = model.plant, model.lay
     n, nthr = len(ts), lay.n_thr
     ys = np.asarray(ys, dtype=float).reshape(lay.size, n)
-    sc = np.empty((n, len(_SCALAR_FIELDS)))
-    li = np.empty((len(_LIST_FIELDS) + 4, n, nthr))
-    flags = np.empty((n, 3), dtype=np.int64)
-    wat = np.empty((n, 4))
-    chg = np.empty(n)
-    short = np.empty(n)
     c = model.control
-    for j in range(n):
+    # the values are gathered in lists, row by row, and made arrays once per block (numpy's
+    # item assignment costs more than the list; the values are the same floats)
+    sc, per_design, flags, wat, chg, short = [], [], [], [], [], []
+    for j, t in enumerate(np.asarray(ts, dtype=float).tolist()):
         y = ys[:, j]
-        s = model.evaluate(float(ts[j]), y)
-        sc[j] = [getattr(s, f) for f in _SCALAR_FIELDS]
-        for q, f in enumerate(_LIST_FIELDS):
-            li[q, j] = getattr(s, f)
-        speed = float(y[I_V])
-        li[len(_LIST_FIELDS), j], li[len(_LIST_FIELDS) + 1, j] = model.end_current_and_gas_load(
-            s, speed
-        )
-        v_rc = float(y[I_RC1]) + float(y[I_RC2])
-        chg[j] = model.pack_charge_limit_w(float(y[I_SOC]), v_rc, float(y[I_TB]))
-        flags[j] = (int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded))
-        short[j] = _speed_short(model, speed, s) if c.mode == "speed" else 0.0
+        s = model.evaluate(t, y)
+        x = y.tolist()
+        speed = x[I_V]
+        sc.append(_scalar_fields_of(s))
+        per_design.append((*_list_fields_of(s), *model.end_current_and_gas_load(s, speed)))
+        chg.append(model.pack_charge_limit_w(x[I_SOC], x[I_RC1] + x[I_RC2], x[I_TB]))
+        flags.append((int(s.charge_folded), int(bool(s.saturated) and not s.folded), int(s.folded)))
+        short.append(_speed_short(model, speed, s) if c.mode == "speed" else 0.0)
         w = s.water
-        wat[j] = (w.sp, w.t_c, w.sigma_s_m, s.current_m_s)
+        wat.append((w.sp, w.t_c, w.sigma_s_m, s.current_m_s))
+    sc = np.array(sc, dtype=float).reshape(n, len(_SCALAR_FIELDS))
+    # per design: the snapshot's lists, the end current, the gas load, the outlet void fraction
+    li = np.empty((len(_LIST_FIELDS) + 3, n, nthr))
+    li[: len(_LIST_FIELDS) + 2] = (
+        np.array(per_design, dtype=float).reshape(n, len(_LIST_FIELDS) + 2, nthr).transpose(1, 0, 2)
+    )
+    flags = np.array(flags, dtype=np.int64).reshape(n, 3)
+    wat = np.array(wat, dtype=float).reshape(n, 4)
+    chg = np.array(chg, dtype=float)
+    short = np.array(short, dtype=float)
     # the void fractions of the whole block at once, from the gas load a (row len(_LIST_FIELDS)
     # + 1 holds a until here)
     load = li[len(_LIST_FIELDS) + 1]
@@ -497,16 +504,28 @@ class _Episode:
 
 
 class _Row(Mapping):
-    """One sample of a column block, read as a mapping (plain values; lists per design)."""
+    """One sample of a column block, read as a mapping (plain values; lists per design, to be
+    read, not changed).
 
-    __slots__ = ("cols", "j")
+    The rows of one short block may share ``lists``: each column read is then converted to a
+    list once for the whole block (numpy's per-item ``.item()`` costs more than the read).
+    Without it (a row of the long run columns), each read converts one item."""
 
-    def __init__(self, cols: dict[str, np.ndarray], j: int) -> None:
-        self.cols, self.j = cols, j
+    __slots__ = ("cols", "j", "lists")
+
+    def __init__(
+        self, cols: dict[str, np.ndarray], j: int, lists: dict[str, list] | None = None
+    ) -> None:
+        self.cols, self.j, self.lists = cols, j, lists
 
     def __getitem__(self, key: str):
-        v = self.cols[key][self.j]
-        return v.tolist() if isinstance(v, np.ndarray) else v.item()
+        if self.lists is None:
+            v = self.cols[key][self.j]
+            return v.tolist() if isinstance(v, np.ndarray) else v.item()
+        col = self.lists.get(key)
+        if col is None:
+            col = self.lists[key] = self.cols[key].tolist()
+        return col[self.j]
 
     def __iter__(self):
         return iter(self.cols)
@@ -677,6 +696,7 @@ class MissionRunner:
         self._flushed = 0  # rows already handed to the observer
         self._seen: set = set()  # once-per-run sample events already emitted
         self._episodes = {k: _Episode() for k in ("drive", "fold", "speed")}
+        self._finite_keys: tuple[str, ...] | None = None
         self._episode_leg = 0
         self.chunk_wall_s = chunk_wall_s
         self._h_hint: float | None = None  # first step of the next stepper segment [s]
@@ -895,18 +915,27 @@ class MissionRunner:
             return
         self._last_ty = (float(ts[0]), ys[:, 0])
         block = sample_block(self.model, ts, ys, self.m.leg_index)
-        for k, v in block.items():
-            if v.dtype.kind == "f" and k not in MAY_BE_NAN and not np.isfinite(v).all():
-                bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
-                raise SolverFailure(
-                    f"non-finite value of {k} ({v[bad].tolist()})",
-                    float(ts[bad]),
-                    self.legs[self.m.leg_index].name,
-                    self._state_dict(ys[:, bad]),
-                )
+        if self._finite_keys is None:  # the channels that must be finite (the same each block)
+            self._finite_keys = tuple(
+                k for k, v in block.items() if v.dtype.kind == "f" and k not in MAY_BE_NAN
+            )
+        # one test over all of them (a test per channel costs more than the values); on a
+        # failure, the channel loop finds the first bad value
+        if not np.isfinite(np.concatenate([block[k] for k in self._finite_keys], axis=None)).all():
+            for k in self._finite_keys:
+                v = block[k]
+                if not np.isfinite(v).all():
+                    bad = np.flatnonzero(~np.isfinite(v.reshape(len(ts), -1)).all(axis=1))[0]
+                    raise SolverFailure(
+                        f"non-finite value of {k} ({v[bad].tolist()})",
+                        float(ts[bad]),
+                        self.legs[self.m.leg_index].name,
+                        self._state_dict(ys[:, bad]),
+                    )
         prev = self._rows.last
+        lists: dict[str, list] = {}  # the block's columns as lists, shared by its rows
         for j in range(len(ts)):
-            row = _Row(block, j)
+            row = _Row(block, j, lists)
             for kind, message in sample_events(self.plant, prev, row, self._seen):
                 self._emit(float(ts[j]), kind, self.m.leg_index, message)
             self._watch_limits(row)
@@ -986,7 +1015,7 @@ class MissionRunner:
         NaN/inf."""
         self._last_ty = (t, y)
         dy = self.model.rhs(t, y)
-        if not np.isfinite(dy).all():
+        if not all_finite(dy):
             bad = ", ".join(self._state_names()[k] for k in np.flatnonzero(~np.isfinite(dy)))
             raise SolverFailure(
                 f"non-finite derivative of {bad}",

@@ -37,7 +37,7 @@ import numpy as np
 
 from sim.engine.plant import Plant
 from sim.physics import battery as bat
-from sim.physics.duct_heat import duct_heat
+from sim.physics.duct_heat import duct_heat_terms
 from sim.physics.gas import mean_void_fraction, outlet_void_fraction
 from sim.physics.open_field import hull_friction_change_n, open_field_point, prepare_open_field
 from sim.physics.roots import brent_root as brentq
@@ -181,6 +181,20 @@ class VesselModel:
         self._water_cache: dict[tuple[float, float], tuple] = {}
         self._water_key: tuple[float, float] | None = None
         self._t_eval = 0.0  # time of the evaluation under way (the water may depend on it)
+        # per-design constants, gathered once (attribute look-ups on every call cost as much
+        # as the arithmetic): units per design; the magnets' state indices, thermal
+        # conductances [W/K] and heat capacities [J/K]; the designs with a tracked anode
+        lay, units = self.lay, plant.thrusters
+        self._i_acc = lay.i_acc
+        self._water_varies = plant.water_varies
+        self._mass_kg = plant.total_mass_kg
+        self._units = tuple(u.units for u in units)
+        self._magnet_i = tuple(range(lay.i_mag, lay.i_mag + lay.n_thr))
+        self._magnet_g = tuple(u.magnet_conductance_w_k for u in units)
+        self._magnet_c = tuple(u.magnet_heat_capacity_j_k for u in units)
+        self._anodes = tuple((k, units[k].series_factor) for k in lay.i_anode)
+        # rhs lists the derivatives in state order: the anode charges follow the accumulators
+        assert list(lay.i_anode.values()) == list(range(lay.i_acc + len(ACC_NAMES), lay.size))
 
     WATER_CACHE_SIZE = 64
     """Water states (and thruster constants) kept for a route [-]."""
@@ -363,8 +377,8 @@ class VesselModel:
     def evaluate(self, t: float, y: np.ndarray) -> Snapshot:
         # the algebra reads only the dynamic states (not t, the distances or the accumulators),
         # unless the water changes along the route or with time
-        key = y[: self.lay.i_acc].tobytes()
-        if self.plant.water_varies:
+        key = y[: self._i_acc].tobytes()
+        if self._water_varies:
             key += np.float64(t).tobytes()
         elif key[8 * I_XG : 8 * I_SOC] != self._key_zero:
             key = key[: 8 * I_XG] + self._key_zero + key[8 * I_SOC :]
@@ -399,10 +413,8 @@ class VesselModel:
         return ops, sat
 
     def _power_of(self, ops) -> float:
-        return sum(
-            float(op.electrical_power_w) * u.units
-            for op, u in zip(ops, self.plant.thrusters, strict=True)
-        )
+        """Electrical power of all units of all designs [W] (ops: one unit of each design)."""
+        return sum(float(op.electrical_power_w) * m for op, m in zip(ops, self._units, strict=True))
 
     def pack_power_limit_w(self, soc: float, v_rc: float, temp_c: float) -> float:
         """Greatest pack power the drive may draw [W]: the cells stay at or above their minimum
@@ -511,13 +523,14 @@ class VesselModel:
     def _evaluate(self, y: np.ndarray) -> Snapshot:
         p, c, lay = self.plant, self.control, self.lay
         w, current_m_s, _, _ = self.local_water(self._t_eval, y)
-        speed = float(y[I_V])
-        fields = [self.field_t(k, float(y[lay.i_mag + k])) for k in range(lay.n_thr)]
+        x = y.tolist()  # the state as Python floats: one conversion, not one per item read
+        speed = x[I_V]
+        fields = [self.field_t(k, x[lay.i_mag + k]) for k in range(lay.n_thr)]
         vmax = p.drive_max_voltage_v
         saturated = False
         mode, value = c.mode, c.target
         if mode == "speed":
-            cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + float(y[lay.i_pi])
+            cmd = c.feedforward_v + c.kp_v_per_m_s * (c.target - speed) + x[lay.i_pi]
             if cmd > vmax or cmd < -vmax:
                 saturated = True
                 cmd = max(-vmax, min(vmax, cmd))
@@ -529,8 +542,8 @@ class VesselModel:
 
         # the drive folds back when the pack cannot supply the demand within its limits
         eta = p.drive_efficiency
-        soc, temp = float(y[I_SOC]), float(y[I_TB])
-        v_rc = float(y[I_RC1]) + float(y[I_RC2])
+        soc, temp = x[I_SOC], x[I_TB]
+        v_rc = x[I_RC1] + x[I_RC2]
         hotel = c.hotel_w + p.cryocooler_w
         thr = self._power_of(ops)
         folded = False
@@ -581,7 +594,7 @@ class VesselModel:
                 eff += (op.thrust_n - math.copysign(d_drag, op.thrust_n)) * m
                 gross_power += op.thrust_n * m * speed
                 continue
-            heat = duct_heat(
+            electrode_heat_w, _, rise_k, _ = duct_heat_terms(
                 max(op.joule_loss_w, 0.0),
                 max(op.friction_loss_w, 0.0),
                 u.overpotential_v,
@@ -591,9 +604,9 @@ class VesselModel:
                 w.rho_kg_m3,
                 w.cp_j_kg_k,
             )
-            rise.append(heat.rise_k)
+            rise.append(rise_k)
             jrise.append(op.outlet_temperature_rise_k)
-            el_heat += heat.electrode_w * m
+            el_heat += electrode_heat_w * m
             joule += op.joule_loss_w * m
             electrode += op.electrode_loss_w * m
             friction += op.friction_loss_w * m
@@ -628,7 +641,7 @@ class VesselModel:
         s.pack_voltage_v = float(op.terminal_v)
         s.cell_voltage_v = float(op.cell_v)
         s.ocv_v = float(bat.ocv_v(pk, soc))
-        rc = (float(y[I_RC1]), float(y[I_RC2]))[: pk.n_rc]
+        rc = (x[I_RC1], x[I_RC2])[: pk.n_rc]
         # the cells' heat only: the busbar loss I²·R_extra warms the busbars, not the cells
         s.pack_heat_w = float(
             bat.heat_generation_w(pk, s.pack_current_a, soc, temp, rc, include_busbars=False)
@@ -645,25 +658,29 @@ class VesselModel:
     def rhs(self, t: float, y: np.ndarray) -> np.ndarray:
         self.n_rhs += 1
         s = self.evaluate(t, y)
-        p, lay, c = self.plant, self.lay, self.control
-        dy = np.zeros_like(y)
-        speed = float(y[I_V])
-        dy[I_V] = (s.total_thrust_n - s.resistance_n) / p.total_mass_kg
-        dy[I_XG] = speed + s.current_m_s
-        dy[I_XW] = speed
-        dy[I_SOC] = bat.dsoc_dt(p.pack, s.pack_current_a)
-        dy[I_RC1] = s.drc1
-        dy[I_RC2] = s.drc2
-        dy[I_TB] = bat.battery_temperature_rate_k_s(
-            p.pack, s.pack_heat_w, float(y[I_TB]), s.water.t_c, p.battery_ua_w_k
-        )
-        for k, u in enumerate(p.thrusters):
-            duct_mean_c = s.water.t_c + 0.5 * s.duct_rise_k[k]
-            dy[lay.i_mag + k] = (
-                u.magnet_conductance_w_k
-                * (duct_mean_c - float(y[lay.i_mag + k]))
-                / u.magnet_heat_capacity_j_k
-            )
+        p, c = self.plant, self.control
+        x = y.tolist()  # the state as Python floats (as in _evaluate)
+        speed = x[I_V]
+        t_water = s.water.t_c
+        # the derivatives in state order, gathered in a list and made an array once (cheaper
+        # than filling a zeroed array item by item; the values are the same floats)
+        dy = [
+            (s.total_thrust_n - s.resistance_n) / self._mass_kg,
+            speed + s.current_m_s,
+            speed,
+            bat.dsoc_dt(p.pack, s.pack_current_a),
+            s.drc1,
+            s.drc2,
+            bat.battery_temperature_rate_k_s(
+                p.pack, s.pack_heat_w, x[I_TB], t_water, p.battery_ua_w_k
+            ),
+        ]
+        for i, g_w_k, c_j_k, rise_k in zip(
+            self._magnet_i, self._magnet_g, self._magnet_c, s.duct_rise_k, strict=True
+        ):
+            duct_mean_c = t_water + 0.5 * rise_k
+            dy.append(g_w_k * (duct_mean_c - x[i]) / c_j_k)
+        pi_rate = 0.0
         if c.mode == "speed":
             err = c.target - speed
             winding = s.saturated and (
@@ -671,26 +688,27 @@ class VesselModel:
             )
             # regenerated power folded back: the drive cannot brake harder, so do not wind up
             winding = winding or (s.charge_folded and err < 0)
-            dy[lay.i_pi] = 0.0 if winding else c.ki_v_per_m * err
-        a = lay.acc
-        dy[a["energy_pack_terminal_j"]] = s.pack_voltage_v * s.pack_current_a
-        dy[a["energy_pack_ocv_j"]] = s.ocv_v * s.pack_current_a
-        dy[a["energy_joule_j"]] = s.joule_w
-        dy[a["energy_electrode_j"]] = s.electrode_w
-        dy[a["energy_friction_j"]] = s.friction_w
-        dy[a["energy_wake_j"]] = s.wake_w
-        dy[a["energy_drive_loss_j"]] = s.drive_loss_w
-        dy[a["energy_hotel_j"]] = s.hotel_w
-        dy[a["energy_useful_j"]] = s.total_thrust_n * speed
-        dy[a["energy_hull_j"]] = s.resistance_n * speed
-        dy[a["charge_c"]] = s.pack_current_a
-        dy[a["h2_mol"]] = s.h2
-        dy[a["cl2_mol"]] = s.cl2
-        dy[a["o2_mol"]] = s.o2
-        dy[a["energy_busbar_j"]] = s.busbar_w
-        dy[a["energy_hull_interaction_j"]] = s.interaction_w
-        for k, i in lay.i_anode.items():
+            pi_rate = 0.0 if winding else c.ki_v_per_m * err
+        dy.append(pi_rate)
+        dy += (  # the accumulated quantities, in ACC_NAMES order
+            s.pack_voltage_v * s.pack_current_a,  # energy_pack_terminal_j
+            s.ocv_v * s.pack_current_a,  # energy_pack_ocv_j
+            s.joule_w,  # energy_joule_j
+            s.electrode_w,  # energy_electrode_j
+            s.friction_w,  # energy_friction_j
+            s.wake_w,  # energy_wake_j
+            s.drive_loss_w,  # energy_drive_loss_j
+            s.hotel_w,  # energy_hotel_j
+            s.total_thrust_n * speed,  # energy_useful_j
+            s.resistance_n * speed,  # energy_hull_j
+            s.pack_current_a,  # charge_c
+            s.h2,  # h2_mol
+            s.cl2,  # cl2_mol
+            s.o2,  # o2_mol
+            s.busbar_w,  # energy_busbar_j
+            s.interaction_w,  # energy_hull_interaction_j
+        )
+        for k, series_factor in self._anodes:
             # every channel's anode of a unit passes the parallel-equivalent current
-            u = p.thrusters[k]
-            dy[i] = abs(float(s.ops[k].current_a)) * u.series_factor
-        return dy
+            dy.append(abs(float(s.ops[k].current_a)) * series_factor)
+        return np.array(dy)

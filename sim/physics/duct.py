@@ -390,14 +390,16 @@ def friction_terms_scalar(re: float, rel_roughness: float, aspect_ratio: float):
     ea = rel_roughness / 3.7
     b = 2.51 / re
     x = -2.0 * math.log10(ea + 5.74 * re**-0.9)
-    log10 = math.log10
+    # loop invariants as locals (the products are formed as in the expressions they replace:
+    # 2/ln10·b/arg = (2/ln10·b)/arg, so the iterates are the same floats)
+    log10, tol, tb = math.log10, _COLEBROOK_TOL, _TWO_LN10 * b
     for _ in range(30):
         arg = ea + b * x
-        dx = (x + 2.0 * log10(arg)) / (1.0 + _TWO_LN10 * b / arg)
+        dx = (x + 2.0 * log10(arg)) / (1.0 + tb / arg)
         x -= dx
-        if abs(dx) <= _COLEBROOK_TOL * abs(x):
+        if abs(dx) <= tol * abs(x):
             break
-    h = _TWO_LN10 * b / (ea + b * x)
+    h = tb / (ea + b * x)
     f_t = 1.0 / (x * x)
     m_t = -2.0 * h / (1.0 + h)
     if re >= RE_TURBULENT_MIN:

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 from sim.physics.errors import ModelRangeError
 
-__all__ = ["U_FLOOR_M_S", "DuctHeat", "duct_heat"]
+__all__ = ["U_FLOOR_M_S", "DuctHeat", "duct_heat", "duct_heat_terms"]
 
 U_FLOOR_M_S = 1e-3
 """Velocity floor [m/s] of the mass flow in the temperature rise (the zero-flow rise is
@@ -105,25 +105,84 @@ def duct_heat(
     Bejan (2013), Convection Heat Transfer, ch. 3 (steady-flow energy balance); Bard & Faulkner
     (2001), Electrochemical Methods, ch. 3 (overpotential).
     """
-    for name, v in (
-        ("joule_w", joule_w),
-        ("friction_w", friction_w),
-        ("overpotential_v", overpotential_v),
-    ):
-        if not v >= 0.0:
-            raise ModelRangeError(name, v, "≥ 0", _MODEL)
-    for name, v in (("flow_area_m2", flow_area_m2), ("rho_kg_m3", rho_kg_m3), ("cp", cp_j_kg_k)):
-        if not v > 0.0:
-            raise ModelRangeError(name, v, "> 0", _MODEL)
-    electrode = overpotential_v * abs(current_a)
-    total = joule_w + friction_w + electrode
-    mcp = rho_kg_m3 * flow_area_m2 * max(abs(duct_velocity_m_s), U_FLOOR_M_S) * cp_j_kg_k
+    electrode, total, rise, joule_rise = duct_heat_terms(
+        joule_w,
+        friction_w,
+        overpotential_v,
+        current_a,
+        duct_velocity_m_s,
+        flow_area_m2,
+        rho_kg_m3,
+        cp_j_kg_k,
+    )
     return DuctHeat(
         joule_w=joule_w,
         friction_w=friction_w,
         electrode_w=electrode,
         wall_w=electrode + friction_w,
         total_w=total,
-        rise_k=total / mcp,
-        joule_rise_k=joule_w / mcp,
+        rise_k=rise,
+        joule_rise_k=joule_rise,
     )
+
+
+def duct_heat_terms(
+    joule_w: float,
+    friction_w: float,
+    overpotential_v: float,
+    current_a: float,
+    duct_velocity_m_s: float,
+    flow_area_m2: float,
+    rho_kg_m3: float,
+    cp_j_kg_k: float,
+) -> tuple[float, float, float, float]:
+    """The terms of :func:`duct_heat` as plain floats (the fast path of ODE right-hand sides,
+    which need no :class:`DuctHeat` object: building one costs more than the arithmetic).
+
+    Parameters
+    ----------
+    joule_w, friction_w, overpotential_v, current_a, duct_velocity_m_s, flow_area_m2, rho_kg_m3,
+    cp_j_kg_k : float
+        As in :func:`duct_heat` [W, W, V, A, m/s, m², kg/m³, J/(kg·K)].
+
+    Returns
+    -------
+    tuple of float
+        (electrode heat [W], total heat [W], bulk outlet temperature rise [K], the part of the
+        rise due to Joule heat alone [K]).
+
+    Notes
+    -----
+    See :func:`duct_heat`.
+
+    References
+    ----------
+    Bejan (2013), Convection Heat Transfer, ch. 3 (steady-flow energy balance); Bard & Faulkner
+    (2001), Electrochemical Methods, ch. 3 (overpotential).
+    """
+    if not (
+        joule_w >= 0.0
+        and friction_w >= 0.0
+        and overpotential_v >= 0.0
+        and flow_area_m2 > 0.0
+        and rho_kg_m3 > 0.0
+        and cp_j_kg_k > 0.0
+    ):  # one test on the way of every right-hand side; the loops below name the bad input
+        for name, v in (
+            ("joule_w", joule_w),
+            ("friction_w", friction_w),
+            ("overpotential_v", overpotential_v),
+        ):
+            if not v >= 0.0:
+                raise ModelRangeError(name, v, "≥ 0", _MODEL)
+        for name, v in (
+            ("flow_area_m2", flow_area_m2),
+            ("rho_kg_m3", rho_kg_m3),
+            ("cp", cp_j_kg_k),
+        ):
+            if not v > 0.0:
+                raise ModelRangeError(name, v, "> 0", _MODEL)
+    electrode = overpotential_v * abs(current_a)
+    total = joule_w + friction_w + electrode
+    mcp = rho_kg_m3 * flow_area_m2 * max(abs(duct_velocity_m_s), U_FLOOR_M_S) * cp_j_kg_k
+    return electrode, total, total / mcp, joule_w / mcp

@@ -550,6 +550,8 @@ class _Consts:
         "dt_cap",
         "eps",
         "f_cl",
+        "fre_last",
+        "g_cap",
         "gap",
         "gas",
         "h",
@@ -572,6 +574,7 @@ class _Consts:
         "sig_in",
         "slip",
         "two_rho",
+        "two_rho_cp",
         "vd",
         "vg",
         "vpc",
@@ -615,6 +618,9 @@ class _Consts:
         # the same state more than once (and the dead-band flow repeats), so a repeat costs a
         # dict look-up; the values are the same floats as a fresh solve
         self.memo: dict = {}
+        # (Re, f·Re) of the last wall-friction residual: the operating point's losses are
+        # taken at the converged velocity, where the solve's last residual already put them
+        self.fre_last = (math.nan, 0.0)
         # products that `_step_scalar` needs on every call, formed in the same order as there
         # (so the results are the same floats)
         self.l_dh = self.length / self.d_h
@@ -626,6 +632,10 @@ class _Consts:
         self.k_in1 = 1.0 + self.k_in
         self.half_rho = 0.5 * self.rho
         self.two_rho = 2.0 * self.rho
+        # of the thermal conductivity rise in the scalar path: 2ρc_p, and the heating parameter
+        # g = β·(E − uB)²·L/(2ρc_p·u) at which σ reaches its cap (σ_in/(1 − g) = σ_cap)
+        self.two_rho_cp = self.two_rho * self.cp
+        self.g_cap = 1.0 - self.sig_in / self.sig_cap
 
 
 # --------------------------------------------------------------------------------------------
@@ -1172,8 +1182,8 @@ def _sigma_voltage_scalar(k: _Consts, e_s: float, u: float, thermal: bool) -> fl
     if not thermal or k.beta == 0.0:
         return k.sig_in
     y = e_s - u * k.b
-    g = k.beta * y * y * k.length / (2.0 * k.rho * k.cp * max(abs(u), U_FLOOR_M_S))
-    return k.sig_in / (1.0 - g) if g < 1.0 - k.sig_in / k.sig_cap else k.sig_cap
+    g = k.beta * y * y * k.length / (k.two_rho_cp * max(abs(u), U_FLOOR_M_S))
+    return k.sig_in / (1.0 - g) if g < k.g_cap else k.sig_cap
 
 
 def _sigma_voltage_gas_scalar(k: _Consts, e_s: float, u: float, thermal: bool) -> float:
@@ -1182,7 +1192,7 @@ def _sigma_voltage_gas_scalar(k: _Consts, e_s: float, u: float, thermal: bool) -
     y = e_s - u * k.b
     kappa = k.vpc * abs(y) * k.length / (k.gap * ue)
     if thermal and k.beta != 0.0:
-        g = k.beta * y * y * k.length / (2.0 * k.rho * k.cp * ue)
+        g = k.beta * y * y * k.length / (k.two_rho_cp * ue)
         hi = k.sig_cap
     else:
         g = 0.0
@@ -1207,11 +1217,11 @@ def _sigma_current_scalar(k: _Consts, j: float, u: float, thermal: bool) -> floa
         f = mean_conductivity_ratio_scalar(k.vpc * abs(j) * k.length / (k.gap * ue), k.gas, k.slip)
         if not thermal or k.beta == 0.0:
             return f * k.sig_in
-        k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+        k2 = k.beta * j * j * k.length / (k.two_rho_cp * ue)
         sg = 0.5 * (f * k.sig_in + math.sqrt(f * f * k.sig_in * k.sig_in + 4.0 * f * k2))
         return min(sg, f * k.sig_cap)
     if thermal and k.beta != 0.0:
-        k2 = k.beta * j * j * k.length / (2.0 * k.rho * k.cp * ue)
+        k2 = k.beta * j * j * k.length / (k.two_rho_cp * ue)
         return min(0.5 * (k.sig_in + math.sqrt(k.sig_in * k.sig_in + 4.0 * k2)), k.sig_cap)
     return k.sig_in
 
@@ -1224,7 +1234,9 @@ def _required_dp_scalar(k: _Consts, v0: float, u: float, br: bool) -> float:
 def _resid_scalar(k: _Consts, v0: float, u: float, br: bool, e_s, dpl: float, thermal: bool):
     au = abs(u)
     if k.wall:
-        fre = friction_terms_scalar(k.rho * au * k.d_h / k.mu, k.eps, k.alpha)[0]
+        re = k.rho * au * k.d_h / k.mu
+        fre = friction_terms_scalar(re, k.eps, k.alpha)[0]
+        k.fre_last = (re, fre)
         wall = fre * k.mu * k.length * au / (2.0 * k.d_h * k.d_h)
     else:
         wall = 0.0
@@ -1542,7 +1554,9 @@ def scalar_point(
     electrode = k.vd * abs(current) + vg * current
     flow_work = j * k.b * k.length * q_flow
     if k.wall:
-        fre = friction_terms_scalar(rho * abs(u) * k.d_h / k.mu, k.eps, k.alpha)[0]
+        re = rho * abs(u) * k.d_h / k.mu
+        last = k.fre_last
+        fre = last[1] if re == last[0] else friction_terms_scalar(re, k.eps, k.alpha)[0]
     else:
         fre = 0.0
     dp_wall = fre * k.mu * k.length * abs(u) / (2.0 * k.d_h * k.d_h)

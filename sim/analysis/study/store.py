@@ -124,6 +124,9 @@ class StudyStore:
                         continue  # a line torn by a crash: that variant is flown again
                     if isinstance(row, dict) and "variant_id" in row:
                         self.rows[row["variant_id"]] = row
+                        # the file may lack this row (killed before its snapshot): rewrite the
+                        # file at the close even when the resumed run flies nothing new
+                        self._dirty = True
         else:
             for p in (self.path, journal):
                 if p.exists():

@@ -26,6 +26,7 @@ from numpy.typing import ArrayLike
 from sim.physics.battery.parameters import (
     _MODEL_ECM,
     _MODEL_PACK,
+    _SCALAR,
     GAS_CONSTANT_J_MOL_K,
     KELVIN_OFFSET,
     SOC_RANGE,
@@ -35,7 +36,6 @@ from sim.physics.battery.parameters import (
     _check_soc_scalar,
     _check_temp_array,
     _check_temp_scalar,
-    _is_scalar,
     _readonly,
 )
 from sim.physics.errors import ModelRangeError
@@ -127,6 +127,10 @@ class Pack:
     _eta_c: float = field(init=False, repr=False, compare=False)
     _dudt: float = field(init=False, repr=False, compare=False)
     _inv_ns: float = field(init=False, repr=False, compare=False)
+    # the last (SOC, segment) and (temperature, Arrhenius factor) of the scalar path: one state
+    # asks for them four or five times (current, power limit, heat, RC rates); each entry is a
+    # tuple replaced whole, so a reader never sees a key with another key's value
+    _memo: list = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
         if not isinstance(self.cell, CellParameters):
@@ -177,6 +181,7 @@ class Pack:
         s(self, "_eta_c", c.coulombic_efficiency)
         s(self, "_dudt", c.entropic_coefficient_v_k * ns)
         s(self, "_inv_ns", 1.0 / ns)
+        s(self, "_memo", [(math.nan, None), (math.nan, None)])
 
     @property
     def nominal_voltage_v(self) -> float:
@@ -193,22 +198,34 @@ class Pack:
 
     def _seg(self, soc: float) -> tuple[int, float]:
         """Segment index and weight for a scalar SOC (checked, held flat outside 0…1)."""
+        hit = self._memo[0]
+        if hit[0] == soc:
+            return hit[1]
         if not SOC_RANGE[0] <= soc <= SOC_RANGE[1]:
             _check_soc_scalar(soc)
         xs = self.cell._soc_list
         if soc <= 0.0:
-            return 0, 0.0
-        if soc >= 1.0:
-            return len(xs) - 2, 1.0
-        j = bisect_right(xs, soc) - 1
-        return j, (soc - xs[j]) * self.cell._inv_dsoc[j]
+            out = 0, 0.0
+        elif soc >= 1.0:
+            out = len(xs) - 2, 1.0
+        else:
+            j = bisect_right(xs, soc) - 1
+            out = j, (soc - xs[j]) * self.cell._inv_dsoc[j]
+        self._memo[0] = (soc, out)
+        return out
 
     def _arrhenius(self, temp_c: float) -> float:
+        hit = self._memo[1]
+        if hit[0] == temp_c:
+            return hit[1]
         if not TEMPERATURE_RANGE_C[0] <= temp_c <= TEMPERATURE_RANGE_C[1]:
             _check_temp_scalar(temp_c)
         if self._k_ea == 0.0:
-            return 1.0
-        return math.exp(self._k_ea * (1.0 / (temp_c + KELVIN_OFFSET) - self._inv_tref))
+            f = 1.0
+        else:
+            f = math.exp(self._k_ea * (1.0 / (temp_c + KELVIN_OFFSET) - self._inv_tref))
+        self._memo[1] = (temp_c, f)
+        return f
 
     def _arrhenius_a(self, temp_c: np.ndarray) -> np.ndarray:
         _check_temp_array(temp_c)
@@ -248,7 +265,7 @@ def resistance_temperature_factor(pack: Pack, temp_c: ArrayLike) -> float | np.n
     ----------
     Arrhenius (1889); R_gas from CODATA 2018.
     """
-    if _is_scalar(temp_c):
+    if isinstance(temp_c, _SCALAR):
         return pack._arrhenius(float(temp_c))
     return pack._arrhenius_a(np.asarray(temp_c, dtype=float))
 
@@ -272,7 +289,7 @@ def ocv_v(pack: Pack, soc: ArrayLike) -> float | np.ndarray:
     ----------
     Plett (2015), ch. 2.
     """
-    if _is_scalar(soc):
+    if isinstance(soc, _SCALAR):
         j, w = pack._seg(soc)
         return _lerp(pack._ocv_l, j, w)
     return np.interp(pack._soc_a(soc), pack.cell._soc_arr, pack._ocv_a)
@@ -303,7 +320,7 @@ def r0_ohm(pack: Pack, soc: ArrayLike, temp_c: ArrayLike) -> float | np.ndarray:
     ----------
     Plett (2015), ch. 2; Arrhenius (1889).
     """
-    if _is_scalar(soc) and _is_scalar(temp_c):
+    if isinstance(soc, _SCALAR) and isinstance(temp_c, _SCALAR):
         j, w = pack._seg(soc)
         return _lerp(pack._r0_l, j, w) * pack._arrhenius(temp_c) + pack.extra_series_resistance_ohm
     s = pack._soc_a(soc)
@@ -337,7 +354,7 @@ def rc_params(pack: Pack, soc: ArrayLike, temp_c: ArrayLike) -> tuple:
     ----------
     Plett (2015), ch. 2; Arrhenius (1889).
     """
-    if _is_scalar(soc) and _is_scalar(temp_c):
+    if isinstance(soc, _SCALAR) and isinstance(temp_c, _SCALAR):
         j, w = pack._seg(soc)
         f = pack._arrhenius(temp_c)
         return tuple((_lerp(rs, j, w) * f, _lerp(cs, j, w)) for rs, cs in pack._rc_l)
@@ -383,7 +400,7 @@ def dsoc_dt(pack: Pack, current_a: ArrayLike) -> float | np.ndarray:
     ----------
     Plett (2015), ch. 2 (coulomb counting with coulombic efficiency).
     """
-    if _is_scalar(current_a):
+    if isinstance(current_a, _SCALAR):
         if current_a >= 0.0:
             return -current_a * pack._inv_3600q
         return -pack._eta_c * current_a * pack._inv_3600q
@@ -392,7 +409,7 @@ def dsoc_dt(pack: Pack, current_a: ArrayLike) -> float | np.ndarray:
 
 
 def _v_list(pack: Pack, v_rc: object) -> Sequence:
-    if _is_scalar(v_rc):
+    if isinstance(v_rc, _SCALAR):
         if pack.n_rc != 1:
             raise ModelRangeError(
                 "v_rc", v_rc, f"a sequence of {pack.n_rc} RC voltages", _MODEL_ECM
@@ -442,7 +459,7 @@ def drc_dt(
     Plett (2015), ch. 2.
     """
     vs = _v_list(pack, v_rc)
-    if _is_scalar(soc) and _is_scalar(temp_c) and _is_scalar(current_a):
+    if isinstance(soc, _SCALAR) and isinstance(temp_c, _SCALAR) and isinstance(current_a, _SCALAR):
         j, w = pack._seg(soc)
         f = pack._arrhenius(temp_c)
         out = []

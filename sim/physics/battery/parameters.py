@@ -61,9 +61,9 @@ _MODEL_PACK = "battery pack"
 _MODEL_ECM = "battery equivalent circuit"
 
 
-def _is_scalar(x: object) -> bool:
-    """True for Python/numpy floats and Python ints (the scalar fast path)."""
-    return isinstance(x, (float, int))
+_SCALAR = (float, int)
+"""The types of the scalar fast path: Python and numpy floats, Python ints (tested with
+``isinstance(x, _SCALAR)`` in line: the functions test their inputs on every call)."""
 
 
 def _check_soc_scalar(soc: float) -> None:

@@ -21,7 +21,7 @@ import numpy as np
 from numpy.typing import ArrayLike
 
 from sim.physics.battery.circuit import Pack, _state_array, _state_scalar
-from sim.physics.battery.parameters import _is_scalar
+from sim.physics.battery.parameters import _SCALAR
 from sim.physics.errors import ModelRangeError
 
 __all__ = [
@@ -162,7 +162,12 @@ def solve_current_for_power(
     standard numerical practice (Press et al. 2007, Numerical Recipes, 3rd ed., §5.6).
     """
     rx = pack.extra_series_resistance_ohm
-    if _is_scalar(soc) and _is_scalar(v_rc_total) and _is_scalar(temp_c) and _is_scalar(power_w):
+    if (
+        isinstance(soc, _SCALAR)
+        and isinstance(v_rc_total, _SCALAR)
+        and isinstance(temp_c, _SCALAR)
+        and isinstance(power_w, _SCALAR)
+    ):
         ocv, r_cells = _state_scalar(pack, soc, temp_c)
         e = ocv - v_rc_total
         r = r_cells + rx
@@ -254,7 +259,12 @@ def solve_terminal_for_current(
     Plett (2015), ch. 2.
     """
     rx = pack.extra_series_resistance_ohm
-    if _is_scalar(soc) and _is_scalar(v_rc_total) and _is_scalar(temp_c) and _is_scalar(current_a):
+    if (
+        isinstance(soc, _SCALAR)
+        and isinstance(v_rc_total, _SCALAR)
+        and isinstance(temp_c, _SCALAR)
+        and isinstance(current_a, _SCALAR)
+    ):
         ocv, r_cells = _state_scalar(pack, soc, temp_c)
         e = ocv - v_rc_total
         r = r_cells + rx
@@ -342,7 +352,7 @@ def pack_power_limit_w(
     rx = pack.extra_series_resistance_ohm
     inv_ns = pack._inv_ns
     floor = pack.cell.v_min + undervoltage_margin_v
-    if _is_scalar(soc) and _is_scalar(v_rc_total) and _is_scalar(temp_c):
+    if isinstance(soc, _SCALAR) and isinstance(v_rc_total, _SCALAR) and isinstance(temp_c, _SCALAR):
         ocv, r_cells = _state_scalar(pack, soc, temp_c)
         e = ocv - v_rc_total  # terminal voltage at 0 A
         cell0 = e * inv_ns  # cell voltage at 0 A

@@ -12,7 +12,7 @@ import numpy as np
 from numpy.typing import ArrayLike
 
 from sim.physics.battery.circuit import Pack, _lerp, _v_list
-from sim.physics.battery.parameters import _MODEL_ECM, KELVIN_OFFSET, _is_scalar
+from sim.physics.battery.parameters import _MODEL_ECM, _SCALAR, KELVIN_OFFSET
 from sim.physics.errors import ModelRangeError
 
 __all__ = ["battery_temperature_rate_k_s", "busbar_loss_w", "heat_generation_w"]
@@ -45,7 +45,7 @@ def busbar_loss_w(pack: Pack, current_a: ArrayLike) -> float | np.ndarray:
     Joule's law; Bernardi, Pawlikowski & Newman (1985) for the cells' own balance.
     """
     rx = pack.extra_series_resistance_ohm
-    if _is_scalar(current_a):
+    if isinstance(current_a, _SCALAR):
         return current_a * current_a * rx
     i = np.asarray(current_a, dtype=float)
     return i * i * rx
@@ -95,7 +95,7 @@ def heat_generation_w(
     """
     vs = _v_list(pack, v_rc)
     rx = pack.extra_series_resistance_ohm if include_busbars else 0.0
-    if _is_scalar(soc) and _is_scalar(temp_c) and _is_scalar(current_a):
+    if isinstance(soc, _SCALAR) and isinstance(temp_c, _SCALAR) and isinstance(current_a, _SCALAR):
         j, w = pack._seg(soc)
         f = pack._arrhenius(temp_c)
         q = current_a * current_a * (_lerp(pack._r0_l, j, w) * f + rx)
@@ -149,12 +149,16 @@ def battery_temperature_rate_k_s(
     ----------
     Bernardi, Pawlikowski & Newman (1985) (lumped energy balance).
     """
-    if _is_scalar(ua_w_k):
+    if isinstance(ua_w_k, _SCALAR):
         if ua_w_k < 0.0:
             raise ModelRangeError("ua_w_k", ua_w_k, "≥ 0 W/K", _MODEL_ECM)
     elif np.any(np.asarray(ua_w_k) < 0.0):
         raise ModelRangeError("ua_w_k", ua_w_k, "≥ 0 W/K", _MODEL_ECM)
-    if _is_scalar(heat_w) and _is_scalar(temp_c) and _is_scalar(ambient_c):
+    if (
+        isinstance(heat_w, _SCALAR)
+        and isinstance(temp_c, _SCALAR)
+        and isinstance(ambient_c, _SCALAR)
+    ):
         return (heat_w - ua_w_k * (temp_c - ambient_c)) / pack.thermal_mass_j_k
     q = np.asarray(heat_w, dtype=float)
     dt = np.asarray(temp_c, dtype=float) - np.asarray(ambient_c, dtype=float)
