@@ -317,7 +317,7 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
         w = s.water
         wat.append((w.sp, w.t_c, w.sigma_s_m, s.current_m_s))
     sc = np.array(sc, dtype=float).reshape(n, len(_SCALAR_FIELDS))
-    # per design: the snapshot's lists, the end current, the gas load, the outlet void fraction
+    # per design: the snapshot's lists, the end current, the mean and outlet void fractions
     li = np.empty((len(_LIST_FIELDS) + 3, n, nthr))
     li[: len(_LIST_FIELDS) + 2] = (
         np.array(per_design, dtype=float).reshape(n, len(_LIST_FIELDS) + 2, nthr).transpose(1, 0, 2)
@@ -326,13 +326,12 @@ def sample_block(model: VesselModel, ts: np.ndarray, ys: np.ndarray, leg_index: 
     wat = np.array(wat, dtype=float).reshape(n, 4)
     chg = np.array(chg, dtype=float)
     short = np.array(short, dtype=float)
-    # the void fractions of the whole block at once, from the gas load a (row len(_LIST_FIELDS)
-    # + 1 holds a until here)
-    load = li[len(_LIST_FIELDS) + 1]
+    # the mean and outlet void fractions of the whole block at once, from the gas load a
+    load = li[len(_LIST_FIELDS) + 1].copy()
     for k in range(nthr):
         slip = model.gas_slip(k)
+        li[len(_LIST_FIELDS) + 1, :, k] = mean_void_fraction(load[:, k], slip)
         li[len(_LIST_FIELDS) + 2, :, k] = outlet_void_fraction(load[:, k], slip)
-        load[:, k] = mean_void_fraction(load[:, k], slip)
     col = dict(zip(_SCALAR_FIELDS, sc.T, strict=True))
     per = dict(zip(_LIST_FIELDS, li, strict=False))
     speed = ys[I_V].copy()
@@ -1089,10 +1088,7 @@ class MissionRunner:
                 wall = _time.perf_counter()
                 if wall - self._last_flush > self.chunk_wall_s:
                     self.obs.progress(t_b, self.time_limit, wall - self._wall0)
-                    self._flush_rows()
-                    self._last_flush = wall
-                elif self._rows.n - self._flushed >= _FLUSH_ROWS:
-                    self._flush_rows()  # a bounded batch: each row is copied out once
+                self._flush_if_due(wall)
         except SolverFailure:
             raise
         except IntegratorFailure as exc:
@@ -1225,7 +1221,7 @@ class MissionRunner:
         y = self._start_leg(0, t, y)
         self._record(t, y)
         self._next_k = 1  # the next grid point to write (k·sample_s)
-        wall0 = last_flush = _time.perf_counter()
+        wall0 = _time.perf_counter()
         self._wall0 = self._last_flush = wall0
         # solve_ivp: segments of at most a fiftieth of the run for progress and flushes; the
         # step-by-step integrator flushes by wall clock inside a segment and is not restarted
@@ -1245,11 +1241,7 @@ class MissionRunner:
                 yield env.timeout(max(0.0, t - env.now))
                 wall = _time.perf_counter()
                 self.obs.progress(t, self.time_limit, wall - wall0)
-                if wall - max(last_flush, self._last_flush) > self.chunk_wall_s:
-                    self._flush_rows()
-                    last_flush = self._last_flush = wall
-                elif self._rows.n - self._flushed >= _FLUSH_ROWS:
-                    self._flush_rows()
+                self._flush_if_due(wall)
                 if fired is None:
                     if t >= self.time_limit:
                         self._record(t, y)
@@ -1309,6 +1301,16 @@ class MissionRunner:
             self._finish(t, y, "mission complete", "complete")
             return y
         return self._start_leg(m.leg_index + 1, t, y)
+
+    def _flush_if_due(self, wall: float) -> None:
+        """Hand the waiting rows to the observer when ``chunk_wall_s`` of wall time [s] has
+        passed since the last hand-over, or when ``_FLUSH_ROWS`` rows are waiting (a bounded
+        batch: each row is copied out once)."""
+        if wall - self._last_flush > self.chunk_wall_s:
+            self._flush_rows()
+            self._last_flush = wall
+        elif self._rows.n - self._flushed >= _FLUSH_ROWS:
+            self._flush_rows()
 
     def _flush_rows(self) -> None:
         """Hand the rows logged since the last call to the observer (as new arrays)."""
